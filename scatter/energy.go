@@ -1,0 +1,401 @@
+package scatter
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/fluctus/fluctus/mesh"
+)
+
+const (
+	// kappaCutoff bounds the integrand's range: beyond κ = kappaCutoff/gap
+	// it is below exp(-2 kappaCutoff) of its value at small κ (DESIGN §4).
+	kappaCutoff = 30
+	// firstRule and lastRule are the smallest and largest Fejér rule sizes.
+	firstRule = 8
+	lastRule  = 128
+	// zeroKappa sets the small wavenumbers, in units of 1/(scene size), from
+	// which the κ → 0 limit is extrapolated for the n = 0 Matsubara term.
+	zeroKappa = 0.05
+)
+
+func (s Settings) withDefaults() Settings {
+	if s.Accuracy <= 0 {
+		s.Accuracy = 1e-3
+	}
+	return s
+}
+
+// Energies returns the Casimir energy of the scene at every point of the
+// sweep (DESIGN §4), at T = 0 by adaptive integration over κ and at T > 0 by
+// the Matsubara sum. Every point is checked for overlapping or touching bodies
+// before any work starts.
+func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]Point, error) {
+	set = set.withDefaults()
+	if set.Accuracy >= 1 {
+		return nil, fmt.Errorf("scatter: accuracy %g must be below 1 (a relative target such as 1e-3)", set.Accuracy)
+	}
+	if set.ThermalWavenumber < 0 || math.IsNaN(set.ThermalWavenumber) {
+		return nil, fmt.Errorf("scatter: negative temperature")
+	}
+	gaps, err := Gaps(bodies, sweep)
+	if err != nil {
+		return nil, err
+	}
+	sys, err := newSystem(bodies, sweep.Body, set.Threads)
+	if err != nil {
+		return nil, err
+	}
+	pts := make([]Point, len(sweep.Offsets))
+	for i, off := range sweep.Offsets {
+		pts[i] = Point{Offset: off, Gap: gaps[i]}
+	}
+	run := &runner{sys: sys, set: set, pts: pts}
+	if set.ThermalWavenumber > 0 {
+		err = run.matsubara(ctx, sceneSize(bodies, sweep))
+	} else {
+		err = run.integrate(ctx)
+	}
+	if err != nil {
+		return nil, err
+	}
+	for i := range pts {
+		pts[i].PFA = PFAEnergy(bodies, sweep.Body, sweep.Direction, pts[i].Offset)
+	}
+	return pts, nil
+}
+
+// Gaps checks every sweep point and returns the closest surface-to-surface
+// distance of the moving body to the others at each. Overlapping or touching
+// bodies are an error naming the point and the bodies.
+func Gaps(bodies []Body, sweep Sweep) ([]float64, error) {
+	if sweep.Body < 0 || sweep.Body >= len(bodies) {
+		return nil, fmt.Errorf("scatter: moving body index %d out of range (have %d bodies)", sweep.Body, len(bodies))
+	}
+	if len(sweep.Offsets) == 0 {
+		return nil, fmt.Errorf("scatter: the sweep has no points")
+	}
+	for i := range bodies {
+		for j := i + 1; j < len(bodies); j++ {
+			if i == sweep.Body || j == sweep.Body {
+				continue
+			}
+			if err := separated(bodies[i], bodies[j].Mesh, bodies[j].Name, "the fixed bodies"); err != nil {
+				return nil, err
+			}
+		}
+	}
+	mv := bodies[sweep.Body]
+	gaps := make([]float64, len(sweep.Offsets))
+	for p, off := range sweep.Offsets {
+		moved := mv.Mesh.Translate(off)
+		gaps[p] = math.Inf(1)
+		for j, b := range bodies {
+			if j == sweep.Body {
+				continue
+			}
+			where := fmt.Sprintf("sweep point %d (offset %.6g, %.6g, %.6g)", p+1, off.X, off.Y, off.Z)
+			if err := separated(b, moved, mv.Name, where); err != nil {
+				return nil, err
+			}
+			d, _, _ := mesh.Gap(moved, b.Mesh)
+			gaps[p] = math.Min(gaps[p], d)
+		}
+	}
+	return gaps, nil
+}
+
+// separated returns an error when the body b and the mesh m (of body name)
+// overlap or touch.
+func separated(b Body, m *mesh.Mesh, name, where string) error {
+	if mesh.Overlap(b.Mesh, m) {
+		return fmt.Errorf("at %s bodies %q and %q overlap: move them apart or choose larger gaps", where, b.Name, name)
+	}
+	if d, _, _ := mesh.Gap(b.Mesh, m); !(d > 0) {
+		return fmt.Errorf("at %s bodies %q and %q touch (gap %g): the gap must be positive", where, b.Name, name, d)
+	}
+	return nil
+}
+
+// runner evaluates the integrand for all points, κ by κ, sharing the self
+// factors of each κ between the points that need it.
+type runner struct {
+	sys        *system
+	set        Settings
+	pts        []Point
+	done, todo int
+}
+
+// request is one integrand evaluation: point p at κ, stored into *dst.
+type request struct {
+	p     int
+	kappa float64
+	dst   *float64
+}
+
+// evaluate computes all requests, grouped by κ.
+func (r *runner) evaluate(ctx context.Context, reqs []request) error {
+	sort.SliceStable(reqs, func(i, j int) bool { return reqs[i].kappa < reqs[j].kappa })
+	r.todo += len(reqs)
+	r.progress()
+	for i := 0; i < len(reqs); {
+		kappa := reqs[i].kappa
+		sf, err := r.sys.factorSelf(ctx, kappa)
+		if err != nil {
+			return err
+		}
+		for ; i < len(reqs) && reqs[i].kappa == kappa; i++ {
+			rq := reqs[i]
+			v, err := r.sys.logDet(ctx, sf, r.pts[rq.p].Offset)
+			if err != nil {
+				return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
+			}
+			*rq.dst = v
+			r.pts[rq.p].Samples = append(r.pts[rq.p].Samples, Sample{Kappa: kappa, Value: v})
+			r.done++
+			r.progress()
+		}
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func (r *runner) progress() {
+	if r.set.Progress != nil {
+		r.set.Progress(r.done, r.todo)
+	}
+}
+
+// dyadic rounds x to the nearest power of two, so that sweep points with
+// similar gaps share their κ nodes (and hence their self factors) exactly.
+func dyadic(x float64) float64 { return math.Exp2(math.Round(math.Log2(x))) }
+
+// integrate computes the T = 0 energy of every point (DESIGN §4):
+//
+//	E = (1/2π) ∫_0^∞ f(κ) dκ,  κ = κc t/(1-t),
+//
+// in units of ħc/L0, by nested Fejér rules in t, doubling the rule until two
+// successive rules agree to the requested accuracy. The reported error is that
+// difference: an upper estimate, since the finer rule is the more accurate.
+func (r *runner) integrate(ctx context.Context) error {
+	type state struct {
+		kc, cut float64
+		n       int
+		f       []float64
+		q, err  float64
+		done    bool
+	}
+	st := make([]*state, len(r.pts))
+	for i, p := range r.pts {
+		st[i] = &state{kc: dyadic(2 / p.Gap), cut: kappaCutoff / p.Gap, n: firstRule, f: make([]float64, firstRule-1)}
+		for k := range st[i].f {
+			st[i].f[k] = math.NaN()
+		}
+	}
+	for {
+		var reqs []request
+		for i, s := range st {
+			if s.done {
+				continue
+			}
+			rule := newFejer(s.n)
+			for k, t := range rule.t {
+				if !math.IsNaN(s.f[k]) {
+					continue
+				}
+				kappa := s.kc * t / (1 - t)
+				if kappa > s.cut {
+					s.f[k] = 0
+					continue
+				}
+				reqs = append(reqs, request{p: i, kappa: kappa, dst: &s.f[k]})
+			}
+		}
+		if len(reqs) == 0 {
+			break
+		}
+		if err := r.evaluate(ctx, reqs); err != nil {
+			return err
+		}
+		for _, s := range st {
+			if s.done {
+				continue
+			}
+			fine, coarse := newFejer(s.n), newFejer(s.n/2)
+			var qf, qc float64
+			for k, t := range fine.t {
+				jac := s.kc / ((1 - t) * (1 - t))
+				qf += fine.w[k] * s.f[k] * jac
+			}
+			for k, t := range coarse.t {
+				jac := s.kc / ((1 - t) * (1 - t))
+				qc += coarse.w[k] * s.f[nestedIndex(k, s.n/2, s.n)] * jac
+			}
+			s.q, s.err = qf, math.Abs(qf-qc)
+			if s.err <= r.set.Accuracy*math.Abs(qf) || s.n >= lastRule {
+				s.done = true
+				continue
+			}
+			next := make([]float64, 2*s.n-1)
+			for k := range next {
+				next[k] = math.NaN()
+			}
+			for k, v := range s.f {
+				next[nestedIndex(k, s.n, 2*s.n)] = v
+			}
+			s.n, s.f = 2*s.n, next
+		}
+	}
+	for i, s := range st {
+		r.pts[i].Energy = s.q / (2 * math.Pi)
+		r.pts[i].EnergyError = s.err / (2 * math.Pi)
+		sortSamples(r.pts[i].Samples)
+	}
+	return nil
+}
+
+// matsubara computes the free energy at temperature T (DESIGN §4):
+//
+//	F = (κ_T/2π) Σ'_{n≥0} f(n κ_T),  κ_T = 2π k_B T/(ħc),
+//
+// in ħc/L0, the n = 0 term halved. The n = 0 term is the κ → 0 limit of f,
+// which is even in κ for perfect conductors; it is extrapolated from
+// κ = ε, 2ε and 4ε (ε = zeroKappa/size) by Richardson's rule in κ², never
+// evaluated at κ = 0 (where the matrix is singular). The sum stops when a
+// term falls below the accuracy target (or beyond the cutoff); the error
+// estimate adds the extrapolation's correction size and the geometric tail.
+func (r *runner) matsubara(ctx context.Context, size float64) error {
+	kt := r.set.ThermalWavenumber
+	eps := zeroKappa / size
+	if eps > kt/8 {
+		eps = kt / 8 // stay well below the first Matsubara frequency
+	}
+	np := len(r.pts)
+	fz := make([][3]float64, np)
+	var reqs []request
+	for i := range r.pts {
+		for j := 0; j < 3; j++ {
+			reqs = append(reqs, request{p: i, kappa: eps * float64(int(1)<<j), dst: &fz[i][j]})
+		}
+	}
+	if err := r.evaluate(ctx, reqs); err != nil {
+		return err
+	}
+	sum := make([]float64, np)
+	errs := make([]float64, np)
+	last := make([]float64, np)
+	active := make([]bool, np)
+	for i := range r.pts {
+		// f(κ) = f0 + aκ² + bκ⁴ + ...: Richardson in κ² on (ε, 2ε) and on
+		// (2ε, 4ε), then once more to cancel the κ⁴ term; the last
+		// correction is the error estimate.
+		r1 := (4*fz[i][0] - fz[i][1]) / 3
+		r2 := (4*fz[i][1] - fz[i][2]) / 3
+		f0 := (16*r1 - r2) / 15
+		sum[i] = f0 / 2
+		errs[i] = math.Abs(r1-f0) / 2
+		last[i] = f0
+		active[i] = true
+	}
+	for n := 1; ; n++ {
+		kappa := float64(n) * kt
+		vals := make([]float64, np)
+		reqs = reqs[:0]
+		for i, p := range r.pts {
+			if active[i] && kappa*p.Gap > kappaCutoff {
+				active[i] = false
+			}
+			if active[i] {
+				reqs = append(reqs, request{p: i, kappa: kappa, dst: &vals[i]})
+			}
+		}
+		if len(reqs) == 0 {
+			break
+		}
+		if err := r.evaluate(ctx, reqs); err != nil {
+			return err
+		}
+		for _, rq := range reqs {
+			i := rq.p
+			v := vals[i]
+			sum[i] += v
+			if n >= 2 && math.Abs(v) <= r.set.Accuracy*1e-2*math.Abs(sum[i]) {
+				// Geometric tail with the observed ratio of successive terms.
+				if ratio := v / last[i]; ratio > 0 && ratio < 1 {
+					errs[i] += math.Abs(v) * ratio / (1 - ratio)
+				} else {
+					errs[i] += math.Abs(v)
+				}
+				active[i] = false
+			}
+			last[i] = v
+		}
+	}
+	for i := range r.pts {
+		r.pts[i].Energy = kt / (2 * math.Pi) * sum[i]
+		r.pts[i].EnergyError = kt / (2 * math.Pi) * errs[i]
+		sortSamples(r.pts[i].Samples)
+	}
+	return nil
+}
+
+func sortSamples(s []Sample) {
+	sort.Slice(s, func(i, j int) bool { return s[i].Kappa < s[j].Kappa })
+}
+
+// sceneSize is the diameter of the bounding box of all bodies over the sweep.
+func sceneSize(bodies []Body, sweep Sweep) float64 {
+	lo := r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
+	hi := r3.Scale(-1, lo)
+	grow := func(m *mesh.Mesh, off r3.Vec) {
+		for _, v := range m.Vertices {
+			v = r3.Add(v, off)
+			lo = r3.Vec{X: math.Min(lo.X, v.X), Y: math.Min(lo.Y, v.Y), Z: math.Min(lo.Z, v.Z)}
+			hi = r3.Vec{X: math.Max(hi.X, v.X), Y: math.Max(hi.Y, v.Y), Z: math.Max(hi.Z, v.Z)}
+		}
+	}
+	for i, b := range bodies {
+		if i == sweep.Body {
+			for _, off := range sweep.Offsets {
+				grow(b.Mesh, off)
+			}
+			continue
+		}
+		grow(b.Mesh, r3.Vec{})
+	}
+	return r3.Norm(r3.Sub(hi, lo))
+}
+
+// Estimate returns the unknown count and the peak dense-matrix memory of a
+// run: the self factors, one interaction block and its whitened copy, and
+// the reduced matrix (all bodies' unknowns for three or more bodies).
+func Estimate(bodies []Body) Cost {
+	var c Cost
+	var sq, maxPair, minPair int64
+	ns := make([]int64, len(bodies))
+	for i, b := range bodies {
+		e := int64(3 * len(b.Mesh.Triangles) / 2) // edges of a closed mesh
+		ns[i] = e
+		c.Unknowns += int(e)
+		sq += e * e
+	}
+	for i := range ns {
+		for j := i + 1; j < len(ns); j++ {
+			maxPair = max(maxPair, ns[i]*ns[j])
+			minPair = max(minPair, min(ns[i], ns[j]))
+		}
+	}
+	reduced := minPair * minPair
+	if len(bodies) > 2 {
+		reduced = int64(c.Unknowns) * int64(c.Unknowns)
+	}
+	// Self blocks are assembled one at a time next to the factors kept.
+	c.MatrixBytes = 8 * (sq + 2*maxPair + reduced + maxPair)
+	return c
+}
