@@ -1,0 +1,5 @@
+//go:build !long
+
+package validate
+
+const longSuite = false
