@@ -50,3 +50,24 @@ func addLowerProduct(c blas64.General, a blas64.General) {
 	blas64.Gemm(blas.NoTrans, blas.Trans, 1, a2, a1, 1, c21)
 	addLowerProduct(c22, a2)
 }
+
+// solveLowerTransInPlace overwrites the n×m matrix b with L^-T b for the n×n
+// lower triangular l (back substitution by blocks):
+//
+//	[L11ᵀ L21ᵀ; 0 L22ᵀ] [X1; X2] = [B1; B2]:  X2 = L22^-T B2, X1 = L11^-T (B1 - L21ᵀ X2).
+func solveLowerTransInPlace(l blas64.Triangular, b blas64.General) {
+	n := l.N
+	if n <= leafSize {
+		blas64.Trsm(blas.Left, blas.Trans, 1, l, b)
+		return
+	}
+	h := n / 2
+	l11 := blas64.Triangular{Uplo: blas.Lower, Diag: l.Diag, N: h, Stride: l.Stride, Data: l.Data}
+	l22 := blas64.Triangular{Uplo: blas.Lower, Diag: l.Diag, N: n - h, Stride: l.Stride, Data: l.Data[h*l.Stride+h:]}
+	l21 := blas64.General{Rows: n - h, Cols: h, Stride: l.Stride, Data: l.Data[h*l.Stride:]}
+	b1 := blas64.General{Rows: h, Cols: b.Cols, Stride: b.Stride, Data: b.Data}
+	b2 := blas64.General{Rows: n - h, Cols: b.Cols, Stride: b.Stride, Data: b.Data[h*b.Stride:]}
+	solveLowerTransInPlace(l22, b2)
+	blas64.Gemm(blas.Trans, blas.NoTrans, -1, l21, b2, 1, b1)
+	solveLowerTransInPlace(l11, b1)
+}

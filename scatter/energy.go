@@ -21,6 +21,9 @@ const (
 	// zeroKappa sets the small wavenumbers, in units of 1/(scene size), from
 	// which the κ → 0 limit is extrapolated for the n = 0 Matsubara term.
 	zeroKappa = 0.05
+	// stiffnessStep is the central-difference step of the stiffness, in
+	// units of the gap: truncation (step)² ≈ 1e-6 relative.
+	stiffnessStep = 1e-3
 )
 
 func (s Settings) withDefaults() Settings {
@@ -52,9 +55,20 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 	}
 	pts := make([]Point, len(sweep.Offsets))
 	for i, off := range sweep.Offsets {
-		pts[i] = Point{Offset: off, Gap: gaps[i]}
+		pts[i] = Point{Offset: off, Turn: sweep.turn(i), Gap: gaps[i]}
 	}
-	run := &runner{sys: sys, set: set, pts: pts}
+	if set.Stiffness {
+		set.Forces = true
+		if l := r3.Norm(sweep.Direction); l > 0 {
+			sweep.Direction = r3.Scale(1/l, sweep.Direction)
+		} else {
+			return nil, fmt.Errorf("scatter: the stiffness needs a sweep direction")
+		}
+	}
+	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, delta: make([]float64, len(pts))}
+	for i, p := range pts {
+		run.delta[i] = stiffnessStep * p.Gap
+	}
 	if set.ThermalWavenumber > 0 {
 		err = run.matsubara(ctx, sceneSize(bodies, sweep))
 	} else {
@@ -64,7 +78,9 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 		return nil, err
 	}
 	for i := range pts {
-		pts[i].PFA = PFAEnergy(bodies, sweep.Body, sweep.Direction, pts[i].Offset)
+		placed := append([]Body(nil), bodies...)
+		placed[sweep.Body].Mesh = sweep.place(bodies[sweep.Body].Mesh, i)
+		pts[i].PFA = PFAEnergy(placed, sweep.Body, sweep.Direction)
 	}
 	return pts, nil
 }
@@ -89,10 +105,13 @@ func Gaps(bodies []Body, sweep Sweep) ([]float64, error) {
 			}
 		}
 	}
+	if len(sweep.Turns) != 0 && len(sweep.Turns) != len(sweep.Offsets) {
+		return nil, fmt.Errorf("scatter: the sweep has %d offsets but %d turns", len(sweep.Offsets), len(sweep.Turns))
+	}
 	mv := bodies[sweep.Body]
 	gaps := make([]float64, len(sweep.Offsets))
 	for p, off := range sweep.Offsets {
-		moved := mv.Mesh.Translate(off)
+		moved := sweep.place(mv.Mesh, p)
 		gaps[p] = math.Inf(1)
 		for j, b := range bodies {
 			if j == sweep.Body {
@@ -126,15 +145,47 @@ func separated(b Body, m *mesh.Mesh, name, where string) error {
 type runner struct {
 	sys        *system
 	set        Settings
+	sweep      Sweep
 	pts        []Point
+	delta      []float64 // stiffness step of each point, L0
 	done, todo int
 }
 
-// request is one integrand evaluation: point p at κ, stored into *dst.
+// Quantities integrated over κ, as positions in a value vector: the
+// log-determinant, then with forces its six derivatives (displacements and
+// turns of the moving body), then with stiffness the derivative of the
+// displacement gradient along the sweep direction.
+const (
+	qLogDet = 0
+	qGrad   = 1
+	qStiff  = 7
+)
+
+// width is the length of the value vector.
+func (r *runner) width() int {
+	switch {
+	case r.set.Stiffness:
+		return qStiff + 1
+	case r.set.Forces:
+		return qGrad + 6
+	}
+	return 1
+}
+
+// request is one evaluation of the value vector of point p at κ, stored
+// into dst.
 type request struct {
 	p     int
 	kappa float64
-	dst   *float64
+	dst   []float64
+}
+
+// placementOf returns the placement of point p shifted by s along the sweep
+// direction.
+func (r *runner) placementOf(p int, s float64) placement {
+	off := r3.Add(r.sweep.Offsets[p], r3.Scale(s, r.sweep.Direction))
+	t := r.sweep.turn(p)
+	return placement{offset: off, turn: t, centre: r3.Add(t.apply(r.sweep.Centre), off)}
 }
 
 // evaluate computes all requests, grouped by κ.
@@ -142,6 +193,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 	sort.SliceStable(reqs, func(i, j int) bool { return reqs[i].kappa < reqs[j].kappa })
 	r.todo += len(reqs)
 	r.progress()
+	grad := r.set.Forces || r.set.Stiffness
 	for i := 0; i < len(reqs); {
 		kappa := reqs[i].kappa
 		sf, err := r.sys.factorSelf(ctx, kappa)
@@ -150,12 +202,36 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 		}
 		for ; i < len(reqs) && reqs[i].kappa == kappa; i++ {
 			rq := reqs[i]
-			v, err := r.sys.logDet(ctx, sf, r.pts[rq.p].Offset)
+			ev, err := r.sys.evaluate(ctx, sf, r.placementOf(rq.p, 0), grad)
 			if err != nil {
 				return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 			}
-			*rq.dst = v
-			r.pts[rq.p].Samples = append(r.pts[rq.p].Samples, Sample{Kappa: kappa, Value: v})
+			rq.dst[qLogDet] = ev.logDet
+			if grad {
+				copy(rq.dst[qGrad:qGrad+6], ev.grad[:])
+			}
+			if r.set.Stiffness {
+				// Central difference of the displacement gradient along ê at
+				// the same κ (so the frequency rule is shared exactly).
+				d := r.delta[rq.p]
+				plus, err := r.sys.evaluate(ctx, sf, r.placementOf(rq.p, d), true)
+				if err != nil {
+					return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
+				}
+				minus, err := r.sys.evaluate(ctx, sf, r.placementOf(rq.p, -d), true)
+				if err != nil {
+					return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
+				}
+				e := r.sweep.Direction
+				gp := plus.grad[0]*e.X + plus.grad[1]*e.Y + plus.grad[2]*e.Z
+				gm := minus.grad[0]*e.X + minus.grad[1]*e.Y + minus.grad[2]*e.Z
+				rq.dst[qStiff] = (gp - gm) / (2 * d)
+			}
+			smp := Sample{Kappa: kappa, Value: ev.logDet}
+			if grad {
+				smp.Gradient = ev.grad
+			}
+			r.pts[rq.p].Samples = append(r.pts[rq.p].Samples, smp)
 			r.done++
 			r.progress()
 		}
@@ -176,26 +252,60 @@ func (r *runner) progress() {
 // similar gaps share their κ nodes (and hence their self factors) exactly.
 func dyadic(x float64) float64 { return math.Exp2(math.Round(math.Log2(x))) }
 
-// integrate computes the T = 0 energy of every point (DESIGN §4):
+// finish converts the integrals of the value vector (ħc/L0 units after the
+// factor 1/2π) into the point's results: E = I[ln det]/2π, F = -I[∇ ln det]/2π,
+// stiffness = I[∂_s(ê·∇ ln det)]/2π; err holds the error estimates.
+func (r *runner) finish(p int, q, err []float64) {
+	pt := &r.pts[p]
+	c := 1 / (2 * math.Pi)
+	pt.Energy, pt.EnergyError = c*q[qLogDet], c*err[qLogDet]
+	if len(q) > qGrad {
+		pt.Force = r3.Vec{X: -c * q[qGrad], Y: -c * q[qGrad+1], Z: -c * q[qGrad+2]}
+		pt.Torque = r3.Vec{X: -c * q[qGrad+3], Y: -c * q[qGrad+4], Z: -c * q[qGrad+5]}
+		pt.ForceError = c * math.Sqrt(err[qGrad]*err[qGrad]+err[qGrad+1]*err[qGrad+1]+err[qGrad+2]*err[qGrad+2])
+		pt.TorqueError = c * math.Sqrt(err[qGrad+3]*err[qGrad+3]+err[qGrad+4]*err[qGrad+4]+err[qGrad+5]*err[qGrad+5])
+	}
+	if len(q) > qStiff {
+		pt.Stiffness, pt.StiffnessError = c*q[qStiff], c*err[qStiff]
+	}
+	sortSamples(pt.Samples)
+}
+
+// converged reports whether the integrals q with error estimates err meet the
+// accuracy: the energy, and with forces the force vector, relatively.
+func (r *runner) converged(q, err []float64) bool {
+	acc := r.set.Accuracy
+	if err[qLogDet] > acc*math.Abs(q[qLogDet]) {
+		return false
+	}
+	if len(q) > qGrad {
+		f := math.Sqrt(q[qGrad]*q[qGrad] + q[qGrad+1]*q[qGrad+1] + q[qGrad+2]*q[qGrad+2])
+		e := math.Sqrt(err[qGrad]*err[qGrad] + err[qGrad+1]*err[qGrad+1] + err[qGrad+2]*err[qGrad+2])
+		if e > acc*f {
+			return false
+		}
+	}
+	return true
+}
+
+// integrate computes the T = 0 results of every point (DESIGN §4):
 //
 //	E = (1/2π) ∫_0^∞ f(κ) dκ,  κ = κc t/(1-t),
 //
-// in units of ħc/L0, by nested Fejér rules in t, doubling the rule until the
-// error estimate of convergedError meets the requested accuracy.
+// in units of ħc/L0 (forces likewise with the gradient of f), by nested
+// Fejér rules in t, doubling the rule until the error estimate of
+// convergedError meets the requested accuracy.
 func (r *runner) integrate(ctx context.Context) error {
 	type state struct {
 		kc, cut float64
 		n       int
-		f       []float64
-		q, err  float64
+		f       [][]float64 // value vector at each node of the n-rule; nil until computed
 		done    bool
 	}
+	w := r.width()
 	st := make([]*state, len(r.pts))
 	for i, p := range r.pts {
-		st[i] = &state{kc: dyadic(2 / p.Gap), cut: kappaCutoff / p.Gap, n: firstRule, f: make([]float64, firstRule-1)}
-		for k := range st[i].f {
-			st[i].f[k] = math.NaN()
-		}
+		st[i] = &state{kc: dyadic(2 / p.Gap), cut: kappaCutoff / p.Gap, n: firstRule, f: make([][]float64, firstRule-1)}
 	}
 	for {
 		var reqs []request
@@ -205,15 +315,15 @@ func (r *runner) integrate(ctx context.Context) error {
 			}
 			rule := newFejer(s.n)
 			for k, t := range rule.t {
-				if !math.IsNaN(s.f[k]) {
+				if s.f[k] != nil {
 					continue
 				}
+				s.f[k] = make([]float64, w)
 				kappa := s.kc * t / (1 - t)
 				if kappa > s.cut {
-					s.f[k] = 0
-					continue
+					continue // negligible: left at zero
 				}
-				reqs = append(reqs, request{p: i, kappa: kappa, dst: &s.f[k]})
+				reqs = append(reqs, request{p: i, kappa: kappa, dst: s.f[k]})
 			}
 		}
 		if len(reqs) == 0 {
@@ -222,38 +332,38 @@ func (r *runner) integrate(ctx context.Context) error {
 		if err := r.evaluate(ctx, reqs); err != nil {
 			return err
 		}
-		for _, s := range st {
+		for i, s := range st {
 			if s.done {
 				continue
 			}
-			q := func(m int) float64 { // Fejér sum with the m-rule (nested in n)
+			sum := func(m int) []float64 { // Fejér sums with the m-rule (nested in n)
 				rule := newFejer(m)
-				sum := 0.0
+				out := make([]float64, w)
 				for k, t := range rule.t {
-					sum += rule.w[k] * s.f[nestedIndex(k, m, s.n)] * s.kc / ((1 - t) * (1 - t))
+					v := s.f[nestedIndex(k, m, s.n)]
+					jac := rule.w[k] * s.kc / ((1 - t) * (1 - t))
+					for j := range out {
+						out[j] += jac * v[j]
+					}
 				}
-				return sum
+				return out
 			}
-			qf, qc, qcc := q(s.n), q(s.n/2), q(s.n/4)
-			s.q, s.err = qf, convergedError(math.Abs(qf-qc), math.Abs(qc-qcc))
-			if s.err <= r.set.Accuracy*math.Abs(qf) || s.n >= lastRule {
+			qf, qc, qcc := sum(s.n), sum(s.n/2), sum(s.n/4)
+			errs := make([]float64, w)
+			for j := range errs {
+				errs[j] = convergedError(math.Abs(qf[j]-qc[j]), math.Abs(qc[j]-qcc[j]))
+			}
+			if r.converged(qf, errs) || s.n >= lastRule {
 				s.done = true
+				r.finish(i, qf, errs)
 				continue
 			}
-			next := make([]float64, 2*s.n-1)
-			for k := range next {
-				next[k] = math.NaN()
-			}
+			next := make([][]float64, 2*s.n-1)
 			for k, v := range s.f {
 				next[nestedIndex(k, s.n, 2*s.n)] = v
 			}
 			s.n, s.f = 2*s.n, next
 		}
-	}
-	for i, s := range st {
-		r.pts[i].Energy = s.q / (2 * math.Pi)
-		r.pts[i].EnergyError = s.err / (2 * math.Pi)
-		sortSamples(r.pts[i].Samples)
 	}
 	return nil
 }
@@ -262,55 +372,61 @@ func (r *runner) integrate(ctx context.Context) error {
 //
 //	F = (κ_T/2π) Σ'_{n≥0} f(n κ_T),  κ_T = 2π k_B T/(ħc),
 //
-// in ħc/L0, the n = 0 term halved. The n = 0 term is the κ → 0 limit of f,
-// which is even in κ for perfect conductors; it is extrapolated from
-// κ = ε, 2ε and 4ε (ε = zeroKappa/size) by Richardson's rule in κ², never
-// evaluated at κ = 0 (where the matrix is singular). The sum stops when a
-// term falls below the accuracy target (or beyond the cutoff); the error
-// estimate adds the extrapolation's correction size and the geometric tail.
+// in ħc/L0 (forces likewise), the n = 0 term halved. The n = 0 term is the
+// κ → 0 limit of f, which is even in κ for perfect conductors; it is
+// extrapolated from κ = ε, 2ε and 4ε (ε = zeroKappa/size) by Richardson's
+// rule in κ², never evaluated at κ = 0 (where the matrix is singular). The
+// sum stops when a term falls below the accuracy target (or beyond the
+// cutoff); the error estimate adds the extrapolation's last correction and
+// the geometric tail.
 func (r *runner) matsubara(ctx context.Context, size float64) error {
 	kt := r.set.ThermalWavenumber
 	eps := zeroKappa / size
 	if eps > kt/8 {
 		eps = kt / 8 // stay well below the first Matsubara frequency
 	}
+	w := r.width()
 	np := len(r.pts)
-	fz := make([][3]float64, np)
+	fz := make([][3][]float64, np)
 	var reqs []request
 	for i := range r.pts {
 		for j := 0; j < 3; j++ {
-			reqs = append(reqs, request{p: i, kappa: eps * float64(int(1)<<j), dst: &fz[i][j]})
+			fz[i][j] = make([]float64, w)
+			reqs = append(reqs, request{p: i, kappa: eps * float64(int(1)<<j), dst: fz[i][j]})
 		}
 	}
 	if err := r.evaluate(ctx, reqs); err != nil {
 		return err
 	}
-	sum := make([]float64, np)
-	errs := make([]float64, np)
+	sum := make([][]float64, np)
+	errs := make([][]float64, np)
 	last := make([]float64, np)
 	active := make([]bool, np)
 	for i := range r.pts {
-		// f(κ) = f0 + aκ² + bκ⁴ + ...: Richardson in κ² on (ε, 2ε) and on
-		// (2ε, 4ε), then once more to cancel the κ⁴ term; the last
-		// correction is the error estimate.
-		r1 := (4*fz[i][0] - fz[i][1]) / 3
-		r2 := (4*fz[i][1] - fz[i][2]) / 3
-		f0 := (16*r1 - r2) / 15
-		sum[i] = f0 / 2
-		errs[i] = math.Abs(r1-f0) / 2
-		last[i] = f0
+		sum[i], errs[i] = make([]float64, w), make([]float64, w)
+		for j := 0; j < w; j++ {
+			// f(κ) = f0 + aκ² + bκ⁴ + ...: Richardson in κ² on (ε, 2ε) and on
+			// (2ε, 4ε), then once more to cancel the κ⁴ term.
+			r1 := (4*fz[i][0][j] - fz[i][1][j]) / 3
+			r2 := (4*fz[i][1][j] - fz[i][2][j]) / 3
+			f0 := (16*r1 - r2) / 15
+			sum[i][j] = f0 / 2
+			errs[i][j] = math.Abs(r1-f0) / 2
+		}
+		last[i] = 2 * sum[i][qLogDet]
 		active[i] = true
 	}
 	for n := 1; ; n++ {
 		kappa := float64(n) * kt
-		vals := make([]float64, np)
+		vals := make([][]float64, np)
 		reqs = reqs[:0]
 		for i, p := range r.pts {
 			if active[i] && kappa*p.Gap > kappaCutoff {
 				active[i] = false
 			}
 			if active[i] {
-				reqs = append(reqs, request{p: i, kappa: kappa, dst: &vals[i]})
+				vals[i] = make([]float64, w)
+				reqs = append(reqs, request{p: i, kappa: kappa, dst: vals[i]})
 			}
 		}
 		if len(reqs) == 0 {
@@ -322,23 +438,30 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 		for _, rq := range reqs {
 			i := rq.p
 			v := vals[i]
-			sum[i] += v
-			if n >= 2 && math.Abs(v) <= r.set.Accuracy*1e-2*math.Abs(sum[i]) {
+			for j := range v {
+				sum[i][j] += v[j]
+			}
+			if n >= 2 && math.Abs(v[qLogDet]) <= r.set.Accuracy*1e-2*math.Abs(sum[i][qLogDet]) {
 				// Geometric tail with the observed ratio of successive terms.
-				if ratio := v / last[i]; ratio > 0 && ratio < 1 {
-					errs[i] += math.Abs(v) * ratio / (1 - ratio)
-				} else {
-					errs[i] += math.Abs(v)
+				tail := 1.0
+				if ratio := v[qLogDet] / last[i]; ratio > 0 && ratio < 1 {
+					tail = ratio / (1 - ratio)
+				}
+				for j := range v {
+					errs[i][j] += math.Abs(v[j]) * tail
 				}
 				active[i] = false
 			}
-			last[i] = v
+			last[i] = v[qLogDet]
 		}
 	}
 	for i := range r.pts {
-		r.pts[i].Energy = kt / (2 * math.Pi) * sum[i]
-		r.pts[i].EnergyError = kt / (2 * math.Pi) * errs[i]
-		sortSamples(r.pts[i].Samples)
+		// (κ_T/2π) Σ' = (1/2π) × κ_T Σ': scale to the integral's units.
+		for j := range sum[i] {
+			sum[i][j] *= kt
+			errs[i][j] *= kt
+		}
+		r.finish(i, sum[i], errs[i])
 	}
 	return nil
 }

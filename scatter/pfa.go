@@ -13,7 +13,7 @@ import (
 func plateEnergy(d float64) float64 { return -math.Pi * math.Pi / (720 * d * d * d) }
 
 // PFAEnergy returns the proximity-force estimate of the scene's energy
-// (Derjaguin 1934; DESIGN §7) with the moving body displaced by offset:
+// (Derjaguin 1934; DESIGN §7) with the bodies where they are:
 //
 //	E_PFA = Σ_panels A_p |cos θ_p| e(d_p),  e(d) = -π²/(720 d³),
 //
@@ -24,7 +24,7 @@ func plateEnergy(d float64) float64 { return -math.Pi * math.Pi / (720 * d * d *
 // FromMoving uses the moving body's panels for the pairs it belongs to,
 // FromFixed the other body's, and pairs of fixed bodies enter both with the
 // mean of their two sides. Energies are in ħc/L0.
-func PFAEnergy(bodies []Body, moving int, dir r3.Vec, offset r3.Vec) PFA {
+func PFAEnergy(bodies []Body, moving int, dir r3.Vec) PFA {
 	if l := r3.Norm(dir); l > 0 {
 		dir = r3.Scale(1/l, dir)
 	} else {
@@ -34,9 +34,6 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec, offset r3.Vec) PFA {
 	trees := make([]*mesh.Tree, len(bodies))
 	for i, b := range bodies {
 		meshes[i] = b.Mesh
-		if i == moving && offset != (r3.Vec{}) {
-			meshes[i] = b.Mesh.Translate(offset)
-		}
 		trees[i] = mesh.NewTree(meshes[i])
 	}
 	var est PFA

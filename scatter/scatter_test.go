@@ -36,11 +36,11 @@ func integrandAt(t testing.TB, bodies []Body, kappa float64) float64 {
 	if err != nil {
 		t.Fatal(err)
 	}
-	v, err := sys.logDet(context.Background(), sf, r3.Vec{})
+	ev, err := sys.evaluate(context.Background(), sf, placement{}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return v
+	return ev.logDet
 }
 
 // TestIntegrandSignAndDecay checks DESIGN §4: ln det(M M_∞^-1) ≤ 0, finite
@@ -83,14 +83,15 @@ func TestTwoBodyReduction(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	pair, err := sys.logDetPair(ctx, sf, sys.surf)
+	pairEv, err := sys.evaluatePair(ctx, sf, sys.surf, placement{}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	many, err := sys.logDetMany(ctx, sf, sys.surf)
+	manyEv, err := sys.evaluateMany(ctx, sf, sys.surf, placement{}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
+	pair, many := pairEv.logDet, manyEv.logDet
 	if math.Abs(pair-many) > 1e-10*math.Abs(pair) {
 		t.Errorf("two-body %.15g, n-body %.15g", pair, many)
 	}
@@ -211,7 +212,7 @@ func TestMatsubara(t *testing.T) {
 	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}}
 	direct := integrandAt(t, bodies, 1e-4)
 	sys, _ := newSystem(bodies, 1, 0)
-	run := &runner{sys: sys, set: Settings{Accuracy: 1e-4, ThermalWavenumber: 1}.withDefaults(), pts: []Point{{Gap: 1}}}
+	run := &runner{sys: sys, set: Settings{Accuracy: 1e-4, ThermalWavenumber: 1}.withDefaults(), sweep: sw, pts: []Point{{Gap: 1}}, delta: []float64{0}}
 	if err := run.matsubara(context.Background(), sceneSize(bodies, sw)); err != nil {
 		t.Fatal(err)
 	}

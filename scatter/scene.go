@@ -13,12 +13,59 @@ type Body struct {
 	Mesh *mesh.Mesh
 }
 
-// Sweep moves one body rigidly through a list of displacements; every other
-// body stays where it is.
+// Sweep moves one body rigidly through a list of placements; every other
+// body stays where it is. At point p the moving body is first turned by
+// Turns[p] (when Turns is not empty) and then displaced by Offsets[p].
 type Sweep struct {
 	Body      int      // index of the moving body
-	Direction r3.Vec   // unit direction of motion (used for the PFA estimate)
+	Direction r3.Vec   // unit direction of motion (PFA estimate, stiffness)
 	Offsets   []r3.Vec // displacement of the moving body at each point, L0
+	Turns     []Turn   // optional rotation of the moving body at each point
+	// Centre is the point, fixed to the moving body at its reference
+	// placement, about which torques are taken (L0).
+	Centre r3.Vec
+}
+
+// Turn is a rotation by Angle radians (right-hand rule) about Axis through
+// Pivot.
+type Turn struct {
+	Axis  r3.Vec
+	Angle float64
+	Pivot r3.Vec
+}
+
+// apply returns p turned.
+func (t Turn) apply(p r3.Vec) r3.Vec {
+	if t.Angle == 0 || t.Axis == (r3.Vec{}) {
+		return p
+	}
+	rot := r3.NewRotation(t.Angle, r3.Unit(t.Axis))
+	return r3.Add(t.Pivot, rot.Rotate(r3.Sub(p, t.Pivot)))
+}
+
+// turn returns the turn at point p (the identity without turns).
+func (s Sweep) turn(p int) Turn {
+	if len(s.Turns) == 0 {
+		return Turn{}
+	}
+	return s.Turns[p]
+}
+
+// place returns the mesh of the moving body at point p.
+func (s Sweep) place(m *mesh.Mesh, p int) *mesh.Mesh {
+	t := s.turn(p)
+	if t.Angle != 0 && t.Axis != (r3.Vec{}) {
+		m = m.Rotate(r3.Unit(t.Axis), t.Angle, t.Pivot)
+	}
+	if s.Offsets[p] != (r3.Vec{}) {
+		m = m.Translate(s.Offsets[p])
+	}
+	return m
+}
+
+// placePoint returns a point fixed to the moving body at point p.
+func (s Sweep) placePoint(c r3.Vec, p int) r3.Vec {
+	return r3.Add(s.turn(p).apply(c), s.Offsets[p])
 }
 
 // Settings control the accuracy and resources of a computation.
@@ -34,6 +81,9 @@ type Settings struct {
 	// Progress, if not nil, is called after each finished unit of work with
 	// the number done and the (possibly growing) total.
 	Progress func(done, total int)
+	// Forces asks for the force and torque on the moving body; Stiffness
+	// also for the force gradient along the sweep direction.
+	Forces, Stiffness bool
 }
 
 // Sample is one evaluation of the integrand ln det[M M_∞^-1] at an imaginary
@@ -41,16 +91,31 @@ type Settings struct {
 type Sample struct {
 	Kappa float64 // 1/L0
 	Value float64 // dimensionless, ≤ 0
+	// Gradient of the integrand with Settings.Forces: derivatives with
+	// respect to the moving body's displacement (1/L0, first three) and turns
+	// about the x, y and z axes through the centre (per radian).
+	Gradient [6]float64 `json:",omitempty"`
 }
 
 // Point is the result at one sweep point.
 type Point struct {
 	Offset      r3.Vec  // displacement of the moving body, L0
+	Turn        Turn    // rotation of the moving body before the offset
 	Gap         float64 // closest surface-to-surface distance of the moving body to the others, L0
 	Energy      float64 // ħc/L0
 	EnergyError float64 // estimated absolute error of Energy, ħc/L0
 	PFA         PFA     // proximity-force estimate, ħc/L0
 	Samples     []Sample
+
+	// With Settings.Forces: the force (ħc/L0²) and the torque about the
+	// placed Centre (ħc/L0) on the moving body, with error estimates (the
+	// norms of the vector errors).
+	Force, Torque           r3.Vec
+	ForceError, TorqueError float64
+	// With Settings.Stiffness: -d(F·ê)/ds for a displacement s along the
+	// sweep direction ê, in ħc/L0³: the spring constant the interaction adds
+	// along ê (negative when the attraction grows as the body advances).
+	Stiffness, StiffnessError float64
 }
 
 // PFA is the proximity-force estimate of an energy (DESIGN §7) from the

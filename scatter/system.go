@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"runtime"
 
+	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -130,23 +131,54 @@ func (sys *system) coarse(kappa float64, what string, err error) error {
 		what, kappa, kappa*sys.maxSize, sys.maxSize, err)
 }
 
-// surfacesAt returns the surfaces with the moving body displaced by offset.
-func (sys *system) surfacesAt(offset r3.Vec) []*bem.Surface {
-	out := append([]*bem.Surface(nil), sys.surf...)
-	if offset != (r3.Vec{}) {
-		out[sys.moving] = sys.surf[sys.moving].Translate(offset)
-	}
-	return out
+// placement is where the moving body sits at one evaluation.
+type placement struct {
+	offset r3.Vec
+	turn   Turn
+	centre r3.Vec // torque centre, placed
 }
 
-// logDet returns the integrand ln det[M M_∞^-1] at the κ of sf with the
-// moving body displaced by offset.
-func (sys *system) logDet(ctx context.Context, sf *selfFactors, offset r3.Vec) (float64, error) {
-	surf := sys.surfacesAt(offset)
-	if len(surf) == 2 {
-		return sys.logDetPair(ctx, sf, surf)
+// surfacesAt returns the surfaces with the moving body placed.
+func (sys *system) surfacesAt(pl placement) ([]*bem.Surface, error) {
+	out := append([]*bem.Surface(nil), sys.surf...)
+	mv := sys.surf[sys.moving]
+	switch {
+	case pl.turn.Angle != 0 && pl.turn.Axis != (r3.Vec{}):
+		m := mv.Basis.Mesh.Rotate(r3.Unit(pl.turn.Axis), pl.turn.Angle, pl.turn.Pivot).Translate(pl.offset)
+		basis, err := mesh.NewBasis(m)
+		if err != nil {
+			return nil, err
+		}
+		s, err := bem.NewSurface(basis)
+		if err != nil {
+			return nil, err
+		}
+		out[sys.moving] = s
+	case pl.offset != (r3.Vec{}):
+		out[sys.moving] = mv.Translate(pl.offset)
 	}
-	return sys.logDetMany(ctx, sf, surf)
+	return out, nil
+}
+
+// evaluation is the integrand at one κ and placement.
+type evaluation struct {
+	logDet float64
+	// grad holds d ln det M/d(u_x, u_y, u_z, θ_x, θ_y, θ_z) for a
+	// displacement u and turns θ of the moving body about the centre.
+	grad [6]float64
+}
+
+// evaluate returns the integrand ln det[M M_∞^-1] at the κ of sf with the
+// moving body placed, and its gradient when grad is set.
+func (sys *system) evaluate(ctx context.Context, sf *selfFactors, pl placement, grad bool) (evaluation, error) {
+	surf, err := sys.surfacesAt(pl)
+	if err != nil {
+		return evaluation{}, err
+	}
+	if len(surf) == 2 {
+		return sys.evaluatePair(ctx, sf, surf, pl, grad)
+	}
+	return sys.evaluateMany(ctx, sf, surf, pl, grad)
 }
 
 // whitened returns Kᵀ = L_j^-1 M_ji L_i^-T (N_j × N_i) for bodies i < j.
@@ -162,27 +194,65 @@ func (sys *system) whitened(ctx context.Context, sf *selfFactors, surf []*bem.Su
 	return y, nil
 }
 
-// logDetPair is the two-body integrand ln det(I - Kᵀ K) (DESIGN §4), with
-// K = L1^-1 M12 L2^-T, evaluated in the smaller of the two dimensions.
-func (sys *system) logDetPair(ctx context.Context, sf *selfFactors, surf []*bem.Surface) (float64, error) {
-	y, err := sys.whitened(ctx, sf, surf, 0, 1) // Kᵀ, N2 × N1
+// evaluatePair is the two-body integrand ln det(I - Kᵀ K) (DESIGN §4), with
+// K = L0^-1 M01 L1^-T. Without the gradient it works in the smaller of the
+// two dimensions. The gradient (DESIGN §5) is d ln det M/du = 2 <H, dM01/du>
+// with H = (M^-1)_01 = -L0^-T Zᵀ, Z = L1^-T C^-1 Kᵀ and C = I - Kᵀ K the
+// matrix whose Cholesky factor the log-determinant leaves behind.
+func (sys *system) evaluatePair(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
+	y, err := sys.whitened(ctx, sf, surf, 0, 1) // Kᵀ, N1 × N0
 	if err != nil {
-		return 0, err
+		return evaluation{}, err
 	}
-	if y.Rows > y.Cols {
-		y = transpose(y) // K, N1 × N2
+	small := y
+	if !grad && y.Rows > y.Cols {
+		small = transpose(y) // K, N0 × N1
 	}
-	n := y.Rows
+	n := small.Rows
 	delta := make([]float64, n*n)
-	lowerRankUpdate(delta, n, n, y, sys.threads) // Δ = Y Yᵀ
+	lowerRankUpdate(delta, n, n, small, sys.threads) // Δ = Y Yᵀ
 	ld, err := logDetIMinus(delta, n, n, sys.threads)
-	return ld, sys.checkPositive(sf.kappa, err)
+	if err != nil {
+		return evaluation{}, sys.checkPositive(sf.kappa, err)
+	}
+	ev := evaluation{logDet: ld}
+	if !grad {
+		return ev, nil
+	}
+	lc := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
+	z := blas64.General{Rows: y.Rows, Cols: y.Cols, Stride: y.Cols, Data: append([]float64(nil), y.Data...)}
+	solveLowerInPlace(lc, z)             // L_c^-1 Kᵀ
+	solveLowerTransInPlace(lc, z)        // C^-1 Kᵀ
+	solveLowerTransInPlace(sf.f[1].l, z) // L1^-T C^-1 Kᵀ
+	h := transpose(z)                    // N0 × N1
+	solveLowerTransInPlace(sf.f[0].l, h) // L0^-T Zᵀ = -H
+	hm := mat.NewDense(h.Rows, h.Cols, h.Data)
+	hm.Scale(-1, hm)
+	fixed := 1 - sys.moving
+	var mot bem.Motion
+	if sys.moving == 1 {
+		mot, err = sys.asm.CrossGradient(ctx, hm, sf.op, surf[fixed], surf[1], pl.centre)
+	} else {
+		mot, err = sys.asm.CrossGradient(ctx, mat.DenseCopyOf(hm.T()), sf.op, surf[fixed], surf[0], pl.centre)
+	}
+	if err != nil {
+		return evaluation{}, err
+	}
+	ev.setGrad(mot, 2)
+	return ev, nil
 }
 
-// logDetMany is the n-body integrand: with every block whitened the matrix
-// is I - Δ with Δ_ij = -K_ij off the diagonal and zero on it, factored in
-// delta form.
-func (sys *system) logDetMany(ctx context.Context, sf *selfFactors, surf []*bem.Surface) (float64, error) {
+func (ev *evaluation) setGrad(m bem.Motion, f float64) {
+	ev.grad = [6]float64{f * m.Translation.X, f * m.Translation.Y, f * m.Translation.Z,
+		f * m.Rotation.X, f * m.Rotation.Y, f * m.Rotation.Z}
+}
+
+// evaluateMany is the n-body integrand: with every block whitened the matrix
+// is N = I - Δ with Δ_ij = -K_ij off the diagonal and zero on it, factored
+// in delta form. The gradient needs the blocks (M^-1)_im = L_i^-T (N^-1)_im
+// L_m^-1 of the moving body's column m, from two triangular solves with the
+// factor of N: d ln det M/du = 2 Σ_i <(M^-1)_im, dM_im/du>.
+func (sys *system) evaluateMany(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	start := make([]int, len(surf)+1)
 	for i, s := range surf {
 		start[i+1] = start[i] + s.Len()
@@ -193,7 +263,7 @@ func (sys *system) logDetMany(ctx context.Context, sf *selfFactors, surf []*bem.
 		for j := i + 1; j < len(surf); j++ {
 			y, err := sys.whitened(ctx, sf, surf, i, j) // K_ijᵀ: block (j, i)
 			if err != nil {
-				return 0, err
+				return evaluation{}, err
 			}
 			for r := 0; r < y.Rows; r++ {
 				row := delta[(start[j]+r)*n+start[i]:]
@@ -204,7 +274,42 @@ func (sys *system) logDetMany(ctx context.Context, sf *selfFactors, surf []*bem.
 		}
 	}
 	ld, err := logDetIMinus(delta, n, n, sys.threads)
-	return ld, sys.checkPositive(sf.kappa, err)
+	if err != nil {
+		return evaluation{}, sys.checkPositive(sf.kappa, err)
+	}
+	ev := evaluation{logDet: ld}
+	if !grad {
+		return ev, nil
+	}
+	m := sys.moving
+	nm := surf[m].Len()
+	ln := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
+	x := blas64.General{Rows: n, Cols: nm, Stride: nm, Data: make([]float64, n*nm)}
+	for r := 0; r < nm; r++ {
+		x.Data[(start[m]+r)*nm+r] = 1
+	}
+	solveLowerInPlace(ln, x)
+	solveLowerTransInPlace(ln, x) // block column m of N^-1
+	var total bem.Motion
+	for i := range surf {
+		if i == m {
+			continue
+		}
+		ni := surf[i].Len()
+		blk := blas64.General{Rows: ni, Cols: nm, Stride: nm, Data: append([]float64(nil), x.Data[start[i]*nm:(start[i]+ni)*nm]...)}
+		bt := transpose(blk)                  // nm × ni
+		solveLowerTransInPlace(sf.f[m].l, bt) // L_m^-T X_imᵀ = (X_im L_m^-1)ᵀ
+		h := transpose(bt)
+		solveLowerTransInPlace(sf.f[i].l, h) // (M^-1)_im
+		mot, err := sys.asm.CrossGradient(ctx, mat.NewDense(ni, nm, h.Data), sf.op, surf[i], surf[m], pl.centre)
+		if err != nil {
+			return evaluation{}, err
+		}
+		total.Translation = r3.Add(total.Translation, mot.Translation)
+		total.Rotation = r3.Add(total.Rotation, mot.Rotation)
+	}
+	ev.setGrad(total, 2)
+	return ev, nil
 }
 
 func (sys *system) checkPositive(kappa float64, err error) error {

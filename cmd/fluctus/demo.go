@@ -23,7 +23,7 @@ func (a *app) demoCommand() *cobra.Command {
 		Short: "Run a built-in example: a sphere above a square contact pad",
 		Long: `Demo runs a built-in job: a conducting sphere of radius 1 um (a contact bump)
 moved towards a square contact pad of 3 um x 3 um x 0.5 um, to gaps of 2, 1.5
-and 1.2 um. The meshes are coarse (about 200 triangles per body), so the demo
+and 1.2 um. The meshes are coarse (320 and 384 triangles), so the demo
 finishes in about a minute;
 use "fluctus run" with finer meshes for numbers you rely on. Its job file is
 printed by "fluctus demo --print-job".

@@ -358,6 +358,11 @@ func TestRunWritesResults(t *testing.T) {
 		if off.X != 0 || off.Y != 0 {
 			t.Errorf("offset %d = %v is not along the direction", i, off)
 		}
+		// The ball starts above the pad and approaches it moving down: it
+		// stays above, its centre at 0.25 + gap + radius 1.
+		if z := 2 + off.Z; math.Abs(z-(1.25+want)) > 1e-9 {
+			t.Errorf("point %d: ball centre at z = %g, want %g", i, z, 1.25+want)
+		}
 		d, _, _ := mesh.Gap(h.bodies[0].Mesh.Translate(off), h.bodies[1].Mesh)
 		if math.Abs(d-want) > 1e-9 {
 			t.Errorf("point %d: gap %.12g, want %g", i, d, want)

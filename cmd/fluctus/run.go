@@ -85,9 +85,13 @@ computes the Casimir energy at every sweep point.
                                                  # applied before position
   sweep:
     body: ball             # the body that moves
-    direction: [0, 0, 1]
-    gaps: [0.5, 1, 2]      # closest surface distances, or offsets: [...]
+    direction: [0, 0, -1]  # in which it approaches the others
+    gaps: [2, 1, 0.5]      # closest surface distances, or offsets: [...]
                            # (displacements along direction)
+
+In a gap sweep the moving body is shifted along the direction until it is at
+each gap from the nearest other body, staying on the side the direction comes
+from (above the pad in this example).
 
 The default output directory is JOB.out next to the job file (for
 jobs/plate.yaml: jobs/plate.out).

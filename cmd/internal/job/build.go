@@ -20,9 +20,11 @@ type Scene struct {
 
 // Build generates or loads the mesh of every body, checks it (Validate),
 // rotates it about its own origin, moves it to its position and resolves the
-// sweep: a gap sweep puts the moving body, for each gap, at the offset along
-// the direction that leaves that closest distance to the other bodies
-// (mesh.OffsetForGap). Errors name the job file, the line and the body.
+// sweep: in a gap sweep the moving body approaches the others travelling
+// along the direction, and for each gap it is put at the offset along the
+// direction that leaves that closest distance to the other bodies on the
+// side the direction comes from (mesh.OffsetForGap along -direction). Errors
+// name the job file, the line and the body.
 func (j *Job) Build() (*Scene, error) {
 	s := &Scene{Job: j}
 	for i := range j.Bodies {
@@ -50,14 +52,19 @@ func (j *Job) Build() (*Scene, error) {
 		s.Sweep.Offsets = append(s.Sweep.Offsets, r3.Scale(off, sw.Direction))
 	}
 	if len(sw.Gaps) > 0 {
+		// The body approaches the others travelling along the direction,
+		// so it sits on the side the direction comes from: of the offsets
+		// along -direction that leave the gap, OffsetForGap returns the
+		// one farthest back.
 		moving, others := s.split()
+		back := r3.Scale(-1, sw.Direction)
 		for i, g := range sw.Gaps {
-			t, err := mesh.OffsetForGap(moving, others, sw.Direction, g)
+			t, err := mesh.OffsetForGap(moving, others, back, g)
 			if err != nil {
 				return nil, &Error{File: j.Path, Line: sw.Lines[i], Key: fmt.Sprintf("sweep.gaps[%d]", i),
-					Problem: fmt.Sprintf("cannot place body %q at gap %g along the direction: %v; check the direction and the bodies' positions", j.Bodies[sw.Body].Name, g, err)}
+					Problem: fmt.Sprintf("cannot place body %q at gap %g: %v", j.Bodies[sw.Body].Name, g, err)}
 			}
-			s.Sweep.Offsets = append(s.Sweep.Offsets, r3.Scale(t, sw.Direction))
+			s.Sweep.Offsets = append(s.Sweep.Offsets, r3.Scale(t, back))
 		}
 	}
 	return s, nil

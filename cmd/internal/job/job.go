@@ -105,8 +105,10 @@ type Sweep struct {
 	Body      int    // index into Job.Bodies of the moving body
 	Direction r3.Vec // unit vector
 	// Exactly one of Gaps and Offsets is set. Gaps are closest
-	// surface-to-surface distances (> 0); Offsets are displacements along
-	// Direction from the body's position. Both in L0.
+	// surface-to-surface distances (> 0): the body approaches the others
+	// travelling along Direction and is placed, for each gap, on the side
+	// Direction comes from. Offsets are displacements along Direction from
+	// the body's position. Both in L0.
 	Gaps    []float64
 	Offsets []float64
 	// Lines holds the job-file line of each gap or offset.

@@ -37,7 +37,7 @@ func points() []scatter.Point {
 	return []scatter.Point{
 		{Offset: r3.Vec{}, Gap: 2, Energy: -2, EnergyError: 0.002, PFA: scatter.PFA{FromMoving: -2.2, FromFixed: -1.8, Mean: -2.5},
 			Samples: []scatter.Sample{{Kappa: 1, Value: -0.5}}},
-		{Offset: r3.Vec{Z: 1}, Gap: 1, Energy: -1, EnergyError: 0.001},
+		{Offset: r3.Vec{X: math.Copysign(0, -1), Z: 1}, Gap: 1, Energy: -1, EnergyError: 0.001},
 	}
 }
 
@@ -96,7 +96,7 @@ func TestOutputs(t *testing.T) {
 	if len(lines) != 3 || lines[0] != "gap_nm,offset_x_nm,offset_y_nm,offset_z_nm,energy_J,energy_error_J,pfa_energy_J,pfa_moving_J,pfa_fixed_J,ratio_pfa" {
 		t.Errorf("csv:\n%s", cs.String())
 	}
-	if !strings.HasSuffix(lines[2], ",0,0,0,") || !strings.HasSuffix(lines[1], ",0.8") {
+	if !strings.HasPrefix(lines[2], "1,0,0,1,") || !strings.HasSuffix(lines[2], ",0,0,0,") || !strings.HasSuffix(lines[1], ",0.8") {
 		t.Errorf("csv rows:\n%s", cs.String())
 	}
 

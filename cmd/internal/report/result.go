@@ -111,7 +111,7 @@ func New(s *job.Scene, c scatter.Cost, points []scatter.Point) *Result {
 	for _, p := range points {
 		q := Point{
 			Gap:          Float(p.Gap),
-			Offset:       [3]Float{Float(p.Offset.X), Float(p.Offset.Y), Float(p.Offset.Z)},
+			Offset:       [3]Float{plusZero(p.Offset.X), plusZero(p.Offset.Y), plusZero(p.Offset.Z)},
 			EnergyJ:      Float(u.Joules(p.Energy)),
 			EnergyErrorJ: Float(u.Joules(p.EnergyError)),
 			PFAEnergyJ:   Float(u.Joules(p.PFA.Mean)),
@@ -126,6 +126,15 @@ func New(s *job.Scene, c scatter.Cost, points []scatter.Point) *Result {
 		r.Points = append(r.Points, q)
 	}
 	return r
+}
+
+// plusZero returns x with a negative zero (from scaling a direction with
+// zero components) made positive, so that files never show "-0".
+func plusZero(x float64) Float {
+	if x == 0 {
+		return 0
+	}
+	return Float(x)
 }
 
 // ratio returns a/b, NaN when b is zero.

@@ -1,0 +1,191 @@
+package bem
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sync"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// Motion holds the derivatives of a scalar Σ_ab H_ab M_ab with respect to a
+// rigid motion of the second surface of a block: Translation[i] for a
+// displacement along axis i, Rotation[i] for a turn about axis i through the
+// chosen centre (per radian).
+type Motion struct {
+	Translation r3.Vec
+	Rotation    r3.Vec
+}
+
+// CrossGradient returns the derivatives of Σ_ab H_ab M_ab(κ), the contraction
+// of the EFIE interaction block between surfaces a (rows) and b (columns)
+// with the weight matrix h (a.Len() × b.Len()), when b moves rigidly
+// (DESIGN §5). For a displacement u of b the kernel changes as
+// ∂G/∂u = g(R)(x - y) with g = -G'(R)/R = (1 + κR) exp(-κR)/(4πR³); for a turn
+// about axis n through centre the points move by n × (y - centre) and the
+// basis functions turn with them, which adds κ ∫∫ n·(f_b × f_a) G.
+//
+// The contraction is done pair by pair: for each triangle pair the nine
+// weights h_kl c_k c_l collapse the RWG products into one polynomial in the
+// local coordinates, integrated with the pair's product rule (one level
+// finer than the energy's, as ∇G is one order more singular). Surfaces a
+// and b must be different bodies (no touching panels).
+func (as Assembler) CrossGradient(ctx context.Context, h *mat.Dense, op *EFIE, a, b *Surface, centre r3.Vec) (Motion, error) {
+	r, c := h.Dims()
+	if r != a.Len() || c != b.Len() {
+		return Motion{}, fmt.Errorf("bem: weight matrix is %d×%d, surfaces have %d and %d unknowns", r, c, a.Len(), b.Len())
+	}
+	raw := h.RawMatrix()
+	var mu sync.Mutex
+	var total Motion
+	err := as.byColor(ctx, a, func(s int) {
+		var acc Motion
+		for t := range b.Panels {
+			gradPair(&acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
+		}
+		mu.Lock()
+		total.Translation = r3.Add(total.Translation, acc.Translation)
+		total.Rotation = r3.Add(total.Rotation, acc.Rotation)
+		mu.Unlock()
+	})
+	return total, err
+}
+
+// gradPair adds the derivatives contributed by panel s of a and panel t of b.
+func gradPair(acc *Motion, h []float64, stride int, op *EFIE, a *Surface, s int, b *Surface, t int, centre r3.Vec) {
+	pp := collapse(h, stride, op.Kappa, a, s, b, t, centre)
+	if pp.S == 0 && pp.gamma == 0 && pp.alpha == (r3.Vec{}) && pp.beta == (r3.Vec{}) {
+		return
+	}
+	ps, pt := &a.Panels[s], &b.Panels[t]
+	lv, _ := op.Quad.level(op.Kernel, ps, pt)
+	if lv < 0 {
+		// Near pair of two bodies: subdivide until the sub-pairs are well
+		// separated (they never touch, so this ends at the gap's scale).
+		pp.subdivide(ps.V, ps.Centroid, pt.V, pt.Centroid, 0)
+	} else {
+		lv = min(lv+1, len(op.Quad.Far))
+		pp.product(a.points[lv][s], b.points[lv][t])
+	}
+	acc.Translation = r3.Add(acc.Translation, pp.force)
+	acc.Rotation = r3.Add(acc.Rotation, pp.torque)
+}
+
+// collapse sums the nine RWG pairings of panels s and t with their weights
+// h_kl c_k c_l into one polynomial in the local coordinates x̃, ỹ (relative to
+// the centroids): Σ_kl h_kl (x-p_k)·(y-p_l) = S x̃·ỹ - x̃·α - ỹ·β + γ and
+// Σ_kl h_kl (y-p_l)×(x-p_k) = S ỹ×x̃ - ỹ×β - α×x̃ + δ.
+func collapse(h []float64, stride int, kappa float64, a *Surface, s int, b *Surface, t int, centre r3.Vec) pairPoly {
+	ps, pt := &a.Panels[s], &b.Panels[t]
+	pp := pairPoly{kappa: kappa, lever: r3.Sub(pt.Centroid, centre), sep: subSeparation, leaf: subRule}
+	for k := 0; k < 3; k++ {
+		pk := r3.Sub(ps.V[k], ps.Centroid)
+		row := h[a.edge[s][k]*stride:]
+		for l := 0; l < 3; l++ {
+			pl := r3.Sub(pt.V[l], pt.Centroid)
+			w := row[b.edge[t][l]] * a.coef[s][k] * b.coef[t][l]
+			pp.S += w
+			pp.alpha = r3.Add(pp.alpha, r3.Scale(w, pl))
+			pp.beta = r3.Add(pp.beta, r3.Scale(w, pk))
+			pp.gamma += w * r3.Dot(pk, pl)
+			pp.delta = r3.Add(pp.delta, r3.Scale(w, r3.Cross(pl, pk)))
+		}
+	}
+	return pp
+}
+
+// pairPoly is the collapsed polynomial weight of one triangle pair and the
+// derivatives accumulated for it.
+type pairPoly struct {
+	kappa, S, gamma    float64
+	alpha, beta, delta r3.Vec
+	lever              r3.Vec  // centroid of the moving panel minus the centre of rotation
+	sep                float64 // separation, in sub-triangle sizes, that ends the subdivision
+	leaf               *Rule   // rule on the sub-triangles
+	force, torque      r3.Vec
+}
+
+// subRule is the product rule applied to well-separated sub-triangles, and
+// subSeparation the centroid distance, in sub-triangle sizes, that counts as
+// well separated.
+var subRule = Radon7()
+
+const (
+	subSeparation = 3
+	subDepth      = 12
+)
+
+// subdivide integrates over the triangles u (of the observation panel, whose
+// centroid is cu) and v (of the moving panel, centroid cv), splitting the
+// larger into four at its edge midpoints until the two are well separated.
+func (pp *pairPoly) subdivide(u [3]r3.Vec, cu r3.Vec, v [3]r3.Vec, cv r3.Vec, depth int) {
+	su, sv := triSize(u), triSize(v)
+	gu, gv := triCentroid(u), triCentroid(v)
+	if r3.Norm(r3.Sub(gu, gv)) >= pp.sep*math.Max(su, sv) || depth >= subDepth {
+		pp.product(subPoints(u, cu, pp.leaf), subPoints(v, cv, pp.leaf))
+		return
+	}
+	if su >= sv {
+		for _, q := range splitTriangle(u) {
+			pp.subdivide(q, cu, v, cv, depth+1)
+		}
+		return
+	}
+	for _, q := range splitTriangle(v) {
+		pp.subdivide(u, cu, q, cv, depth+1)
+	}
+}
+
+func triSize(v [3]r3.Vec) float64 {
+	return math.Max(r3.Norm(r3.Sub(v[1], v[0])), math.Max(r3.Norm(r3.Sub(v[2], v[1])), r3.Norm(r3.Sub(v[0], v[2]))))
+}
+
+func triCentroid(v [3]r3.Vec) r3.Vec { return r3.Scale(1.0/3, r3.Add(r3.Add(v[0], v[1]), v[2])) }
+
+// splitTriangle returns the four midpoint sub-triangles of v.
+func splitTriangle(v [3]r3.Vec) [4][3]r3.Vec {
+	m01 := r3.Scale(0.5, r3.Add(v[0], v[1]))
+	m12 := r3.Scale(0.5, r3.Add(v[1], v[2]))
+	m20 := r3.Scale(0.5, r3.Add(v[2], v[0]))
+	return [4][3]r3.Vec{{v[0], m01, m20}, {m01, v[1], m12}, {m20, m12, v[2]}, {m01, m12, m20}}
+}
+
+// subPoints returns the points of rule r on triangle v with positions
+// relative to the parent panel's centroid c.
+func subPoints(v [3]r3.Vec, c r3.Vec, r *Rule) []qpoint {
+	area := r3.Norm(r3.Cross(r3.Sub(v[1], v[0]), r3.Sub(v[2], v[0]))) / 2
+	q := make([]qpoint, r.Len())
+	for i, b := range r.Bary {
+		x := r3.Add(r3.Add(r3.Scale(b[0], v[0]), r3.Scale(b[1], v[1])), r3.Scale(b[2], v[2]))
+		q[i] = qpoint{x: x, rel: r3.Sub(x, c), w: r.Weight[i] * area}
+	}
+	return q
+}
+
+// product integrates the pair's derivative integrands with a product rule.
+func (pp *pairPoly) product(xs, ys []qpoint) {
+	kappa, S, alpha, beta, gamma := pp.kappa, pp.S, pp.alpha, pp.beta, pp.gamma
+	force, torque := pp.force, pp.torque
+	lever, delta := pp.lever, pp.delta
+	for _, x := range xs {
+		for _, y := range ys {
+			d := r3.Sub(x.x, y.x)
+			R := math.Sqrt(r3.Dot(d, d))
+			e := math.Exp(-kappa*R) * inv4Pi
+			G := e / R
+			g := (1 + kappa*R) * e / (R * R * R)
+			w := x.w * y.w
+			W := kappa*(S*r3.Dot(x.rel, y.rel)-r3.Dot(x.rel, alpha)-r3.Dot(y.rel, beta)+gamma) + 4*S/kappa
+			fd := r3.Scale(w*W*g, d)
+			force = r3.Add(force, fd)
+			// (y - centre) × ∂G/∂u weighted, plus the turning basis.
+			arm := r3.Add(lever, y.rel)
+			torque = r3.Add(torque, r3.Cross(arm, fd))
+			spin := r3.Sub(r3.Sub(r3.Scale(S, r3.Cross(y.rel, x.rel)), r3.Cross(y.rel, beta)), r3.Cross(alpha, x.rel))
+			torque = r3.Add(torque, r3.Scale(w*kappa*G, r3.Add(spin, delta)))
+		}
+	}
+	pp.force, pp.torque = force, torque
+}
