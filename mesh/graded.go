@@ -401,6 +401,6 @@ func CoarseSummary(cs []CoarseTriangle, gap float64) string {
 	if len(cs) == 1 {
 		what = "triangle near the closest approach is"
 	}
-	return fmt.Sprintf("%d %s larger than half the gap (%.3g); largest %.3g at (%.4g, %.4g, %.4g), %.3g from the other bodies: refine with mesh_size {near: %.3g, far: %.3g}",
+	return fmt.Sprintf("%d %s larger than half the local gap (smallest gap %.3g); largest %.3g at (%.4g, %.4g, %.4g), %.3g from the other bodies: refine with mesh_size {near: %.3g, far: %.3g}",
 		len(cs), what, gap, big.Size, big.Centroid.X, big.Centroid.Y, big.Centroid.Z, big.Distance, gap/2, big.Size)
 }

@@ -15,9 +15,9 @@ func bruteDistance(m *Mesh, p r3.Vec) float64 {
 	best := math.Inf(1)
 	for tr := range m.Triangles {
 		a, b, c := m.Corners(tr)
-		best = math.Min(best, r3.Norm(r3.Sub(p, closestOnTriangle(p, a, b, c))))
+		best = math.Min(best, r3.Norm2(r3.Sub(p, closestOnTriangle(p, a, b, c))))
 	}
-	return best
+	return math.Sqrt(best)
 }
 
 // TestTreeDistance compares the point–mesh distance through the hierarchy
@@ -81,12 +81,12 @@ func TestGradingSizeFunc(t *testing.T) {
 		z    float64
 		want float64
 	}{
-		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.1, 0.05},                // at the gap
-		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.3, 0.05 + 0.5*0.2},      // default growth 0.5
-		{Grading{Near: 0.05, Far: 0.5}, 0.1, 2, 0.5},                   // capped at Far
-		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.02, 0.05},               // closer than dmin: Near
+		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.1, 0.05},                  // at the gap
+		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.3, 0.05 + 0.5*0.2},        // default growth 0.5
+		{Grading{Near: 0.05, Far: 0.5}, 0.1, 2, 0.5},                     // capped at Far
+		{Grading{Near: 0.05, Far: 0.5}, 0.1, 0.02, 0.05},                 // closer than dmin: Near
 		{Grading{Near: 0.01, Far: 1, Growth: 0.2}, 0.1, 1.1, 0.01 + 0.2}, // own growth
-		{Grading{Near: 0.2, Far: 0.2}, 0.1, 0.5, 0.2},                  // uniform
+		{Grading{Near: 0.2, Far: 0.2}, 0.1, 0.5, 0.2},                    // uniform
 	}
 	for _, c := range cases {
 		got := c.g.SizeFunc(others, c.dmin)(r3.Vec{X: 1.3, Y: -2.1, Z: c.z})
@@ -276,6 +276,8 @@ func TestGradedShapes(t *testing.T) {
 	})
 }
 
+// TestCylinderProjector checks the projections at points whose images are
+// known exactly; 1e-15 allows the rounding of one division and square root.
 func TestCylinderProjector(t *testing.T) {
 	p := CylinderProjector(2, 1)
 	cases := []struct{ in, want r3.Vec }{
@@ -362,7 +364,7 @@ func TestCoarseNear(t *testing.T) {
 	}
 	sum := CoarseSummary(cs, d)
 	t.Log(sum)
-	for _, w := range []string{"triangles near the closest approach are larger than half the gap (0.1)", "largest 0.", "refine with mesh_size {near: 0.05, far: 0."} {
+	for _, w := range []string{"triangles near the closest approach are larger than half the local gap (smallest gap 0.1)", "largest 0.", "refine with mesh_size {near: 0.05, far: 0."} {
 		if !strings.Contains(sum, w) {
 			t.Errorf("summary %q does not say %q", sum, w)
 		}
