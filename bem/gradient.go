@@ -29,9 +29,9 @@ type Motion struct {
 //
 // The contraction is done pair by pair: for each triangle pair the nine
 // weights h_kl c_k c_l collapse the RWG products into one polynomial in the
-// local coordinates, integrated with the pair's product rule (one level
-// finer than the energy's, as ∇G is one order more singular). Surfaces a
-// and b must be different bodies (no touching panels).
+// local coordinates, integrated with the pair's product rule (the same as the
+// energy's; near pairs are subdivided). Surfaces a and b must be different
+// bodies (no touching panels).
 func (as Assembler) CrossGradient(ctx context.Context, h *mat.Dense, op *EFIE, a, b *Surface, centre r3.Vec) (Motion, error) {
 	r, c := h.Dims()
 	if r != a.Len() || c != b.Len() {
@@ -66,7 +66,6 @@ func gradPair(acc *Motion, h []float64, stride int, op *EFIE, a *Surface, s int,
 		// separated (they never touch, so this ends at the gap's scale).
 		pp.subdivide(ps.V, ps.Centroid, pt.V, pt.Centroid, 0)
 	} else {
-		lv = min(lv+1, len(op.Quad.Far))
 		pp.product(a.points[lv][s], b.points[lv][t])
 	}
 	acc.Translation = r3.Add(acc.Translation, pp.force)

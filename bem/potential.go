@@ -3,7 +3,6 @@ package bem
 import (
 	"math"
 
-	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
@@ -16,7 +15,7 @@ type EdgeRule struct {
 // NewEdgeRule returns the n-point Gauss–Legendre rule for edge integrals.
 func NewEdgeRule(n int) *EdgeRule {
 	r := &EdgeRule{x: make([]float64, n), w: make([]float64, n)}
-	quad.Legendre{}.FixedLocations(r.x, r.w, -1, 1)
+	gaussLegendre(r.x, r.w, -1, 1)
 	return r
 }
 

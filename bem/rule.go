@@ -3,8 +3,6 @@ package bem
 import (
 	"fmt"
 	"math"
-
-	"gonum.org/v1/gonum/integrate/quad"
 )
 
 // Rule is a quadrature rule on a triangle. Point i has barycentric
@@ -63,7 +61,7 @@ func Collapsed(n int) (*Rule, error) {
 	}
 	x := make([]float64, n)
 	w := make([]float64, n)
-	quad.Legendre{}.FixedLocations(x, w, 0, 1)
+	gaussLegendre(x, w, 0, 1)
 	r := &Rule{Name: fmt.Sprintf("collapsed %dx%d", n, n), Degree: 2*n - 2}
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {
@@ -99,7 +97,7 @@ func EdgeGraded(n int) (*Rule, error) {
 	}
 	x := make([]float64, n)
 	w := make([]float64, n)
-	quad.Legendre{}.FixedLocations(x, w, 0, 1)
+	gaussLegendre(x, w, 0, 1)
 	r := &Rule{Name: fmt.Sprintf("edge-graded %d", n), Degree: 1}
 	for i := 0; i < 3; i++ {
 		for a := 0; a < n; a++ {
@@ -146,7 +144,7 @@ func VertexGraded(n, v int) (*Rule, error) {
 	}
 	x := make([]float64, n)
 	w := make([]float64, n)
-	quad.Legendre{}.FixedLocations(x, w, 0, 1)
+	gaussLegendre(x, w, 0, 1)
 	r := &Rule{Name: fmt.Sprintf("vertex-graded %d at %d", n, v), Degree: n - 2}
 	for i := 0; i < n; i++ {
 		rho, drho := x[i]*x[i], 2*x[i]
@@ -175,7 +173,7 @@ func SideGraded(n, a int) (*Rule, error) {
 	}
 	x := make([]float64, n)
 	w := make([]float64, n)
-	quad.Legendre{}.FixedLocations(x, w, 0, 1)
+	gaussLegendre(x, w, 0, 1)
 	r := &Rule{Name: fmt.Sprintf("side-graded %d opposite %d", n, a), Degree: min(n-2, (2*n-3)/3)}
 	for i := 0; i < n; i++ {
 		xi, dxi := 1-(1-x[i])*(1-x[i]), 2*(1-x[i])

@@ -59,3 +59,23 @@ func TestRuleRange(t *testing.T) {
 		t.Error("SideGraded(1) gave no error")
 	}
 }
+
+// TestGaussLegendre checks the guarded Gauss–Legendre rules for every order
+// up to 64 (weights sum to the interval length; t^(2n-2) integrated exactly;
+// tolerance 1e-12, rounding): gonum v0.17.0's 26-point rule fails this, and
+// gaussLegendre must replace it.
+func TestGaussLegendre(t *testing.T) {
+	for n := 1; n <= 64; n++ {
+		x := make([]float64, n)
+		w := make([]float64, n)
+		gaussLegendre(x, w, -1, 1)
+		if !legendreOK(x, w) {
+			t.Errorf("n=%d: rule fails its exactness check", n)
+		}
+	}
+	x, w := make([]float64, 26), make([]float64, 26)
+	newtonLegendre(x, w)
+	if !legendreOK(x, w) {
+		t.Error("Newton rule for n=26 fails")
+	}
+}

@@ -190,3 +190,31 @@ func sharesVertex(m *mesh.Mesh, s, t int) bool {
 	n, _ := contact(m, s, t)
 	return n > 0
 }
+
+// Mirror returns the image of the surface in the plane through point with
+// unit normal n: every point y goes to Py = y - 2((y - point)·n) n. The image
+// of each RWG function keeps its coefficient (P maps the free vertex), so
+// the block between a surface and a mirrored one is the image block of
+// DESIGN §6. The basis and coloring are shared with s.
+func (s *Surface) Mirror(point, n r3.Vec) *Surface {
+	n = r3.Unit(n)
+	reflect := func(y r3.Vec) r3.Vec { return r3.Sub(y, r3.Scale(2*r3.Dot(r3.Sub(y, point), n), n)) }
+	flip := func(v r3.Vec) r3.Vec { return r3.Sub(v, r3.Scale(2*r3.Dot(v, n), n)) }
+	c := *s
+	c.Panels = make([]Panel, len(s.Panels))
+	for t, p := range s.Panels {
+		c.Panels[t] = NewPanel(reflect(p.V[0]), reflect(p.V[1]), reflect(p.V[2]))
+	}
+	c.points = make([][][]qpoint, len(s.points))
+	for lv := range s.points {
+		c.points[lv] = make([][]qpoint, len(s.points[lv]))
+		for t, pts := range s.points[lv] {
+			q := make([]qpoint, len(pts))
+			for i, pt := range pts {
+				q[i] = qpoint{x: reflect(pt.x), rel: flip(pt.rel), w: pt.w}
+			}
+			c.points[lv][t] = q
+		}
+	}
+	return &c
+}

@@ -45,11 +45,17 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 	if set.ThermalWavenumber < 0 || math.IsNaN(set.ThermalWavenumber) {
 		return nil, fmt.Errorf("scatter: negative temperature")
 	}
-	gaps, err := Gaps(bodies, sweep)
+	if p := set.Substrate; p != nil {
+		if l := r3.Norm(p.Normal); !(l > 0) {
+			return nil, fmt.Errorf("scatter: the substrate normal is zero")
+		}
+		set.Substrate = &Plane{Point: p.Point, Normal: r3.Unit(p.Normal)}
+	}
+	gaps, scale, err := gapsAndScales(bodies, sweep, set.Substrate)
 	if err != nil {
 		return nil, err
 	}
-	sys, err := newSystem(bodies, sweep.Body, set.Threads)
+	sys, err := newSystem(bodies, sweep.Body, set.Threads, set.Substrate)
 	if err != nil {
 		return nil, err
 	}
@@ -61,13 +67,17 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 		set.Forces = true
 		if l := r3.Norm(sweep.Direction); l > 0 {
 			sweep.Direction = r3.Scale(1/l, sweep.Direction)
-		} else {
+		} else if len(sweep.Turns) == 0 {
 			return nil, fmt.Errorf("scatter: the stiffness needs a sweep direction")
 		}
 	}
-	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, delta: make([]float64, len(pts))}
+	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, scale: scale, delta: make([]float64, len(pts))}
 	for i, p := range pts {
-		run.delta[i] = stiffnessStep * p.Gap
+		run.delta[i] = stiffnessStep * scale[i]
+		if len(sweep.Turns) != 0 {
+			run.delta[i] = stiffnessStep * angularStep(bodies[sweep.Body].Mesh, sweep.Turns[i], scale[i])
+		}
+		_ = p
 	}
 	if set.ThermalWavenumber > 0 {
 		err = run.matsubara(ctx, sceneSize(bodies, sweep))
@@ -78,17 +88,105 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 		return nil, err
 	}
 	for i := range pts {
-		placed := append([]Body(nil), bodies...)
-		placed[sweep.Body].Mesh = sweep.place(bodies[sweep.Body].Mesh, i)
-		pts[i].PFA = PFAEnergy(placed, sweep.Body, sweep.Direction)
+		pts[i].PFA = pfaAt(bodies, sweep, i, 0, set.Substrate)
+		if set.Forces {
+			h := pfaStep * scale[i]
+			plus, minus := pfaAt(bodies, sweep, i, h, set.Substrate), pfaAt(bodies, sweep, i, -h, set.Substrate)
+			pts[i].PFA.Force = -(plus.Mean - minus.Mean) / (2 * h)
+		}
 	}
 	return pts, nil
 }
 
+// angularStep is the turn, in radians, that moves the body's farthest point
+// from the axis by about one gap.
+func angularStep(m *mesh.Mesh, t Turn, gap float64) float64 {
+	n := r3.Unit(t.Axis)
+	reach := 0.0
+	for _, v := range m.Vertices {
+		d := r3.Sub(v, t.Pivot)
+		reach = math.Max(reach, r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, n), n))))
+	}
+	if reach == 0 {
+		return 1
+	}
+	return gap / reach
+}
+
+// pfaStep is the central-difference step of the PFA force, in units of the
+// gap.
+const pfaStep = 1e-4
+
+// pfaAt is the PFA estimate at point p with the moving body shifted by s
+// along the sweep direction.
+func pfaAt(bodies []Body, sweep Sweep, p int, s float64, plane *Plane) PFA {
+	placed := append([]Body(nil), bodies...)
+	m := sweep.place(bodies[sweep.Body].Mesh, p)
+	if s != 0 {
+		m = m.Translate(r3.Scale(s/r3.Norm(sweep.Direction), sweep.Direction))
+	}
+	placed[sweep.Body].Mesh = m
+	return PFAEnergy(placed, sweep.Body, sweep.Direction, plane)
+}
+
 // Gaps checks every sweep point and returns the closest surface-to-surface
-// distance of the moving body to the others at each. Overlapping or touching
-// bodies are an error naming the point and the bodies.
-func Gaps(bodies []Body, sweep Sweep) ([]float64, error) {
+// distance of the moving body to the others at each — or, over a substrate,
+// to the plane. Overlapping or touching bodies, or a body crossing or
+// touching the substrate, are an error naming the point and the bodies.
+func Gaps(bodies []Body, sweep Sweep, plane *Plane) ([]float64, error) {
+	g, _, err := gapsAndScales(bodies, sweep, plane)
+	return g, err
+}
+
+// planeGap returns the smallest height of m above the plane (negative when
+// it crosses it).
+func planeGap(m *mesh.Mesh, p *Plane) float64 {
+	n := r3.Unit(p.Normal)
+	d := math.Inf(1)
+	for _, v := range m.Vertices {
+		d = math.Min(d, r3.Dot(r3.Sub(v, p.Point), n))
+	}
+	return d
+}
+
+// gapsAndScales returns the reported gap of every point and the smallest
+// gap anywhere in the scene (which sets the frequency scale).
+func gapsAndScales(bodies []Body, sweep Sweep, plane *Plane) (gaps, scales []float64, err error) {
+	bodyGaps, err := bodyGaps(bodies, sweep, plane == nil)
+	if err != nil {
+		return nil, nil, err
+	}
+	if plane == nil {
+		return bodyGaps, bodyGaps, nil
+	}
+	fixedMin := math.Inf(1)
+	for i, b := range bodies {
+		if i == sweep.Body {
+			continue
+		}
+		d := planeGap(b.Mesh, plane)
+		if !(d > 0) {
+			return nil, nil, fmt.Errorf("body %q crosses or touches the substrate (lowest point %g above it): lift it above the plane", b.Name, d)
+		}
+		fixedMin = math.Min(fixedMin, d)
+	}
+	gaps = make([]float64, len(sweep.Offsets))
+	scales = make([]float64, len(sweep.Offsets))
+	for p := range sweep.Offsets {
+		d := planeGap(sweep.place(bodies[sweep.Body].Mesh, p), plane)
+		if !(d > 0) {
+			return nil, nil, fmt.Errorf("at sweep point %d body %q crosses or touches the substrate (lowest point %g above it): choose a larger gap", p+1, bodies[sweep.Body].Name, d)
+		}
+		gaps[p] = d
+		scales[p] = math.Min(d, math.Min(fixedMin, bodyGaps[p]))
+	}
+	return gaps, scales, nil
+}
+
+// bodyGaps is Gaps between the bodies alone (infinite for a single body
+// over a substrate); need says that the bodies must interact with each
+// other (no substrate).
+func bodyGaps(bodies []Body, sweep Sweep, need bool) ([]float64, error) {
 	if sweep.Body < 0 || sweep.Body >= len(bodies) {
 		return nil, fmt.Errorf("scatter: moving body index %d out of range (have %d bodies)", sweep.Body, len(bodies))
 	}
@@ -110,6 +208,9 @@ func Gaps(bodies []Body, sweep Sweep) ([]float64, error) {
 	}
 	mv := bodies[sweep.Body]
 	gaps := make([]float64, len(sweep.Offsets))
+	if len(bodies) < 2 && need {
+		return nil, fmt.Errorf("scatter: need at least two bodies, or one over a substrate")
+	}
 	for p, off := range sweep.Offsets {
 		moved := sweep.place(mv.Mesh, p)
 		gaps[p] = math.Inf(1)
@@ -147,6 +248,7 @@ type runner struct {
 	set        Settings
 	sweep      Sweep
 	pts        []Point
+	scale      []float64 // smallest gap anywhere in the scene at each point, L0
 	delta      []float64 // stiffness step of each point, L0
 	done, todo int
 }
@@ -180,12 +282,30 @@ type request struct {
 	dst   []float64
 }
 
-// placementOf returns the placement of point p shifted by s along the sweep
-// direction.
+// placementOf returns the placement of point p moved on by s: along the
+// sweep direction for a translation sweep, or by s radians more about the
+// turn's axis for an angle sweep.
 func (r *runner) placementOf(p int, s float64) placement {
-	off := r3.Add(r.sweep.Offsets[p], r3.Scale(s, r.sweep.Direction))
+	off := r.sweep.Offsets[p]
 	t := r.sweep.turn(p)
+	if len(r.sweep.Turns) != 0 {
+		t.Angle += s
+	} else {
+		off = r3.Add(off, r3.Scale(s, r.sweep.Direction))
+	}
 	return placement{offset: off, turn: t, centre: r3.Add(t.apply(r.sweep.Centre), off)}
+}
+
+// along returns the component of the gradient conjugate to the sweep's own
+// motion: the displacement along ê, or for an angle sweep the turn about the
+// turn's axis.
+func (r *runner) along(grad [6]float64, p int) float64 {
+	if len(r.sweep.Turns) != 0 {
+		n := r3.Unit(r.sweep.Turns[p].Axis)
+		return grad[3]*n.X + grad[4]*n.Y + grad[5]*n.Z
+	}
+	e := r.sweep.Direction
+	return grad[0]*e.X + grad[1]*e.Y + grad[2]*e.Z
 }
 
 // evaluate computes all requests, grouped by κ.
@@ -222,10 +342,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 				if err != nil {
 					return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 				}
-				e := r.sweep.Direction
-				gp := plus.grad[0]*e.X + plus.grad[1]*e.Y + plus.grad[2]*e.Z
-				gm := minus.grad[0]*e.X + minus.grad[1]*e.Y + minus.grad[2]*e.Z
-				rq.dst[qStiff] = (gp - gm) / (2 * d)
+				rq.dst[qStiff] = (r.along(plus.grad, rq.p) - r.along(minus.grad, rq.p)) / (2 * d)
 			}
 			smp := Sample{Kappa: kappa, Value: ev.logDet}
 			if grad {
@@ -305,7 +422,9 @@ func (r *runner) integrate(ctx context.Context) error {
 	w := r.width()
 	st := make([]*state, len(r.pts))
 	for i, p := range r.pts {
-		st[i] = &state{kc: dyadic(2 / p.Gap), cut: kappaCutoff / p.Gap, n: firstRule, f: make([][]float64, firstRule-1)}
+		d := r.scale[i]
+		_ = p
+		st[i] = &state{kc: dyadic(2 / d), cut: kappaCutoff / d, n: firstRule, f: make([][]float64, firstRule-1)}
 	}
 	for {
 		var reqs []request
@@ -420,8 +539,8 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 		kappa := float64(n) * kt
 		vals := make([][]float64, np)
 		reqs = reqs[:0]
-		for i, p := range r.pts {
-			if active[i] && kappa*p.Gap > kappaCutoff {
+		for i := range r.pts {
+			if active[i] && kappa*r.scale[i] > kappaCutoff {
 				active[i] = false
 			}
 			if active[i] {

@@ -24,11 +24,16 @@ func plateEnergy(d float64) float64 { return -math.Pi * math.Pi / (720 * d * d *
 // FromMoving uses the moving body's panels for the pairs it belongs to,
 // FromFixed the other body's, and pairs of fixed bodies enter both with the
 // mean of their two sides. Energies are in ħc/L0.
-func PFAEnergy(bodies []Body, moving int, dir r3.Vec) PFA {
+//
+// Over a substrate (plane not nil) each body's panels facing the plane add
+// A_p |cos θ_p| e(h_p) with h_p the height of the panel centroid along the
+// plane normal, in both FromMoving and FromFixed (the plane has no panels).
+func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane) PFA {
+	var est PFA
 	if l := r3.Norm(dir); l > 0 {
 		dir = r3.Scale(1/l, dir)
-	} else {
-		return PFA{}
+	} else if plane == nil {
+		return est
 	}
 	meshes := make([]*mesh.Mesh, len(bodies))
 	trees := make([]*mesh.Tree, len(bodies))
@@ -36,9 +41,8 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec) PFA {
 		meshes[i] = b.Mesh
 		trees[i] = mesh.NewTree(meshes[i])
 	}
-	var est PFA
 	for i := range bodies {
-		for j := i + 1; j < len(bodies); j++ {
+		for j := i + 1; j < len(bodies) && dir != (r3.Vec{}); j++ {
 			eij := pfaFrom(meshes[i], trees[j], dir)
 			eji := pfaFrom(meshes[j], trees[i], dir)
 			switch moving {
@@ -54,8 +58,31 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec) PFA {
 			}
 		}
 	}
+	if plane != nil {
+		for _, m := range meshes {
+			e := pfaPlane(m, plane)
+			est.FromMoving += e
+			est.FromFixed += e
+		}
+	}
 	est.Mean = (est.FromMoving + est.FromFixed) / 2
 	return est
+}
+
+// pfaPlane sums the plate energy over the panels of m facing the plane.
+func pfaPlane(m *mesh.Mesh, p *Plane) float64 {
+	n := r3.Unit(p.Normal)
+	e := 0.0
+	for t := range m.Triangles {
+		proj := r3.Dot(m.AreaVector(t), n)
+		if proj >= 0 {
+			continue // faces away from the plane
+		}
+		if h := r3.Dot(r3.Sub(m.Centroid(t), p.Point), n); h > 0 {
+			e += -proj * plateEnergy(h)
+		}
+	}
+	return e
 }
 
 // pfaFrom sums the plate energy over the panels of m facing the surface held

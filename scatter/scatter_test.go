@@ -28,7 +28,7 @@ func pairScene(t testing.TB, level int, L float64) []Body {
 
 func integrandAt(t testing.TB, bodies []Body, kappa float64) float64 {
 	t.Helper()
-	sys, err := newSystem(bodies, 1, 0)
+	sys, err := newSystem(bodies, 1, 0, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -73,7 +73,7 @@ func TestIntegrandSignAndDecay(t *testing.T) {
 // difference still holds its digits (relative 1e-7).
 func TestTwoBodyReduction(t *testing.T) {
 	bodies := pairScene(t, 2, 2.8)
-	sys, err := newSystem(bodies, 1, 0)
+	sys, err := newSystem(bodies, 1, 0, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -211,7 +211,7 @@ func TestMatsubara(t *testing.T) {
 	bodies := pairScene(t, 2, 3)
 	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}}
 	direct := integrandAt(t, bodies, 1e-4)
-	sys, _ := newSystem(bodies, 1, 0)
+	sys, _ := newSystem(bodies, 1, 0, nil)
 	run := &runner{sys: sys, set: Settings{Accuracy: 1e-4, ThermalWavenumber: 1}.withDefaults(), sweep: sw, pts: []Point{{Gap: 1}}, delta: []float64{0}}
 	if err := run.matsubara(context.Background(), sceneSize(bodies, sw)); err != nil {
 		t.Fatal(err)

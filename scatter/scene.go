@@ -84,6 +84,10 @@ type Settings struct {
 	// Forces asks for the force and torque on the moving body; Stiffness
 	// also for the force gradient along the sweep direction.
 	Forces, Stiffness bool
+	// Substrate, if not nil, is an infinite perfectly conducting plane under
+	// the scene, treated exactly by images (DESIGN §6). Point.Gap is then the
+	// distance of the moving body to the plane.
+	Substrate *Plane
 }
 
 // Sample is one evaluation of the integrand ln det[M M_∞^-1] at an imaginary
@@ -115,6 +119,8 @@ type Point struct {
 	// With Settings.Stiffness: -d(F·ê)/ds for a displacement s along the
 	// sweep direction ê, in ħc/L0³: the spring constant the interaction adds
 	// along ê (negative when the attraction grows as the body advances).
+	// For an angle sweep it is the torsional stiffness -d(τ·n)/dθ about the
+	// turn's axis n, in ħc/L0 per radian.
 	Stiffness, StiffnessError float64
 }
 
@@ -124,10 +130,20 @@ type PFA struct {
 	FromMoving float64
 	FromFixed  float64
 	Mean       float64
+	// Force is -dE_PFA/ds of the mean estimate for a displacement s of the
+	// moving body along the sweep direction (ħc/L0²), so that Force·ê is
+	// comparable with the exact force's component along ê.
+	Force float64
 }
 
 // Cost is the size of a computation, known before any work starts.
 type Cost struct {
 	Unknowns    int   // RWG functions over all bodies
 	MatrixBytes int64 // peak bytes of dense matrices held at once
+}
+
+// Plane is an infinite perfectly conducting plane (a substrate) through Point
+// with unit normal Normal, which points to the side where the bodies are.
+type Plane struct {
+	Point, Normal r3.Vec
 }

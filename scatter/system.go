@@ -27,11 +27,18 @@ type system struct {
 	// copyOf[i] is the index of an earlier body whose mesh body i's is a
 	// translate of (its self block is then the same matrix), or -1.
 	copyOf []int
+	// plane is the substrate, or nil; images holds the mirrored surfaces of
+	// the bodies at their reference placements.
+	plane  *Plane
+	images []*bem.Surface
 }
 
-func newSystem(bodies []Body, moving, threads int) (*system, error) {
-	if len(bodies) < 2 {
-		return nil, fmt.Errorf("scatter: need at least two bodies, have %d", len(bodies))
+func newSystem(bodies []Body, moving, threads int, plane *Plane) (*system, error) {
+	if len(bodies) < 2 && plane == nil {
+		return nil, fmt.Errorf("scatter: need at least two bodies, or one over a substrate; have %d", len(bodies))
+	}
+	if len(bodies) == 0 {
+		return nil, fmt.Errorf("scatter: no bodies")
 	}
 	if moving < 0 || moving >= len(bodies) {
 		return nil, fmt.Errorf("scatter: moving body index %d out of range (have %d bodies)", moving, len(bodies))
@@ -39,7 +46,7 @@ func newSystem(bodies []Body, moving, threads int) (*system, error) {
 	if threads <= 0 {
 		threads = runtime.GOMAXPROCS(0)
 	}
-	sys := &system{moving: moving, threads: threads, asm: bem.Assembler{Threads: threads}}
+	sys := &system{moving: moving, threads: threads, asm: bem.Assembler{Threads: threads}, plane: plane}
 	for _, b := range bodies {
 		if b.Mesh == nil {
 			return nil, fmt.Errorf("scatter: body %q has no mesh", b.Name)
@@ -65,6 +72,9 @@ func newSystem(bodies []Body, moving, threads int) (*system, error) {
 			}
 		}
 		sys.copyOf = append(sys.copyOf, orig)
+		if plane != nil {
+			sys.images = append(sys.images, s.Mirror(plane.Point, plane.Normal))
+		}
 	}
 	return sys, nil
 }
@@ -175,6 +185,9 @@ func (sys *system) evaluate(ctx context.Context, sf *selfFactors, pl placement, 
 	if err != nil {
 		return evaluation{}, err
 	}
+	if sys.plane != nil {
+		return sys.evaluatePlane(ctx, sf, surf, pl, grad)
+	}
 	if len(surf) == 2 {
 		return sys.evaluatePair(ctx, sf, surf, pl, grad)
 	}
@@ -183,8 +196,15 @@ func (sys *system) evaluate(ctx context.Context, sf *selfFactors, pl placement, 
 
 // whitened returns Kᵀ = L_j^-1 M_ji L_i^-T (N_j × N_i) for bodies i < j.
 func (sys *system) whitened(ctx context.Context, sf *selfFactors, surf []*bem.Surface, i, j int) (blas64.General, error) {
-	b := mat.NewDense(surf[i].Len(), surf[j].Len(), nil)
-	if err := sys.asm.Cross(ctx, b, sf.op, surf[i], surf[j]); err != nil {
+	return sys.whitenedWith(ctx, sf, surf[i], i, surf[j], j)
+}
+
+// whitenedWith returns L_j^-1 B^T L_i^-T for the block B between surface a
+// (with the unknowns of body i) and surface b (those of body j), which may
+// be an image.
+func (sys *system) whitenedWith(ctx context.Context, sf *selfFactors, a *bem.Surface, i int, bs *bem.Surface, j int) (blas64.General, error) {
+	b := mat.NewDense(a.Len(), bs.Len(), nil)
+	if err := sys.asm.Cross(ctx, b, sf.op, a, bs); err != nil {
 		return blas64.General{}, err
 	}
 	w := b.RawMatrix()
@@ -309,6 +329,115 @@ func (sys *system) evaluateMany(ctx context.Context, sf *selfFactors, surf []*be
 		total.Rotation = r3.Add(total.Rotation, mot.Rotation)
 	}
 	ev.setGrad(total, 2)
+	return ev, nil
+}
+
+// evaluatePlane is the integrand with the substrate (DESIGN §6): every block
+// of M becomes M_ij - M(i, image of j), the self blocks included, while M_∞
+// keeps the free-space self blocks. Whitened with the free self factors the
+// matrix is I - Δ with Δ_ii = L_i^-1 M(i, img i) L_i^-T and
+// Δ_ij = -(K_ij - K(i, img j)), factored in delta form. The gradient adds
+// the motion of the moving body's image (mirrored displacement, turn by -θ
+// about the mirrored axis through the mirrored centre).
+func (sys *system) evaluatePlane(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
+	p := sys.plane
+	imgs := append([]*bem.Surface(nil), sys.images...)
+	imgs[sys.moving] = surf[sys.moving].Mirror(p.Point, p.Normal)
+	start := make([]int, len(surf)+1)
+	for i, s := range surf {
+		start[i+1] = start[i] + s.Len()
+	}
+	n := start[len(surf)]
+	delta := make([]float64, n*n)
+	put := func(r0, c0 int, y blas64.General, sign float64) { // adds sign*y at (r0, c0)
+		for r := 0; r < y.Rows; r++ {
+			row := delta[(r0+r)*n+c0:]
+			for c, v := range y.Data[r*y.Stride : r*y.Stride+y.Cols] {
+				row[c] += sign * v
+			}
+		}
+	}
+	for i := range surf {
+		y, err := sys.whitenedWith(ctx, sf, surf[i], i, imgs[i], i)
+		if err != nil {
+			return evaluation{}, err
+		}
+		put(start[i], start[i], y, 1)
+		for j := i + 1; j < len(surf); j++ {
+			k, err := sys.whitenedWith(ctx, sf, surf[i], i, surf[j], j)
+			if err != nil {
+				return evaluation{}, err
+			}
+			ki, err := sys.whitenedWith(ctx, sf, surf[i], i, imgs[j], j)
+			if err != nil {
+				return evaluation{}, err
+			}
+			put(start[j], start[i], k, -1)
+			put(start[j], start[i], ki, 1)
+		}
+	}
+	ld, err := logDetIMinus(delta, n, n, sys.threads)
+	if err != nil {
+		return evaluation{}, sys.checkPositive(sf.kappa, err)
+	}
+	ev := evaluation{logDet: ld}
+	if !grad {
+		return ev, nil
+	}
+	m := sys.moving
+	nm := surf[m].Len()
+	ln := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
+	x := blas64.General{Rows: n, Cols: nm, Stride: nm, Data: make([]float64, n*nm)}
+	for r := 0; r < nm; r++ {
+		x.Data[(start[m]+r)*nm+r] = 1
+	}
+	solveLowerInPlace(ln, x)
+	solveLowerTransInPlace(ln, x) // block column m of (I - Δ)^-1
+	nn := r3.Unit(p.Normal)
+	mirror := func(v r3.Vec) r3.Vec { return r3.Sub(v, r3.Scale(2*r3.Dot(v, nn), nn)) }
+	pc := r3.Sub(pl.centre, r3.Scale(2*r3.Dot(r3.Sub(pl.centre, p.Point), nn), nn))
+	// imageMotion converts derivatives for moving the image surface (about
+	// centre c) into derivatives for moving the body: displacement u moves
+	// the image by Pu; a turn θ about n through c turns it by -θ about Pn
+	// through Pc, and R_Pc = R_c + (c - Pc) × T.
+	imageMotion := func(mo bem.Motion) (r3.Vec, r3.Vec) {
+		rpc := r3.Add(mo.Rotation, r3.Cross(r3.Sub(pl.centre, pc), mo.Translation))
+		return mirror(mo.Translation), r3.Scale(-1, mirror(rpc))
+	}
+	var total bem.Motion
+	add := func(t, r r3.Vec, f float64) {
+		total.Translation = r3.Add(total.Translation, r3.Scale(f, t))
+		total.Rotation = r3.Add(total.Rotation, r3.Scale(f, r))
+	}
+	for i := range surf {
+		ni := surf[i].Len()
+		blk := blas64.General{Rows: ni, Cols: nm, Stride: nm, Data: append([]float64(nil), x.Data[start[i]*nm:(start[i]+ni)*nm]...)}
+		bt := transpose(blk)
+		solveLowerTransInPlace(sf.f[m].l, bt)
+		h := transpose(bt)
+		solveLowerTransInPlace(sf.f[i].l, h) // W_im = (M_plane^-1)_im
+		w := mat.NewDense(ni, nm, h.Data)
+		// -M(i, img m): its image moves.
+		mi, err := sys.asm.CrossGradient(ctx, w, sf.op, surf[i], imgs[m], pl.centre)
+		if err != nil {
+			return evaluation{}, err
+		}
+		ti, ri := imageMotion(mi)
+		if i == m {
+			// Self-image block: the body moves too, which is the image
+			// moving by the inverse motion.
+			add(r3.Sub(ti, mi.Translation), r3.Sub(ri, mi.Rotation), -1)
+			continue
+		}
+		mo, err := sys.asm.CrossGradient(ctx, w, sf.op, surf[i], surf[m], pl.centre)
+		if err != nil {
+			return evaluation{}, err
+		}
+		// Blocks (i, m) and (m, i): M_im - M(i, img m), counted twice.
+		add(mo.Translation, mo.Rotation, 2)
+		add(ti, ri, -2)
+	}
+	ev.setGrad(total, 1)
 	return ev, nil
 }
 

@@ -66,6 +66,61 @@ func allCases() []Case {
 	return []Case{
 		sphereSphereFar(16, 5, 0.01, false),
 		sphereSphereFar(16, 8, 0.005, true),
+		sphereSphereFarForce(16, 5, 0.01, false),
+		spherePlaneFar(10, 5, 0.01, false),
+		spherePlaneFar(20, 5, 0.01, false),
+		spherePlaneFar(10, 8, 0.005, true),
+	}
+}
+
+// sphereSphereFarForce compares the force between the spheres with the
+// derivative of the far-field series (volume-equivalent radius).
+func sphereSphereFarForce(L float64, level int, tol float64, long bool) Case {
+	return Case{
+		Name:      fmt.Sprintf("sphere-sphere force, L/R = %g, %d triangles each", L, 20*level*level),
+		Source:    "derivative of the far-field series, leading term -7·143 ħc R⁶/(16π L⁸) (Feinberg & Sucher 1970; DESIGN §8)",
+		Tolerance: tol,
+		Long:      long,
+		Run: func(ctx context.Context, threads int) (float64, float64, error) {
+			m, err := mesh.SphereLevel(1, level)
+			if err != nil {
+				return 0, 0, err
+			}
+			bodies := []scatter.Body{{Name: "first", Mesh: m}, {Name: "second", Mesh: m.Translate(r3.Vec{Z: L})}}
+			sw := scatter.Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}, Centre: r3.Vec{Z: L}}
+			pts, err := scatter.Energies(ctx, bodies, sw, scatter.Settings{Accuracy: 1e-4, Threads: threads, Forces: true})
+			if err != nil {
+				return 0, 0, err
+			}
+			// The series force is -dE/dL on the second sphere (negative:
+			// attraction towards the first, along -z).
+			return pts[0].Force.Z, SphereSphereFarForce(m.EquivalentRadius(), L), nil
+		},
+	}
+}
+
+// spherePlaneFar compares a faceted sphere whose centre is at height L over
+// the substrate with the far-field series (volume-equivalent radius).
+func spherePlaneFar(L float64, level int, tol float64, long bool) Case {
+	return Case{
+		Name:      fmt.Sprintf("sphere-substrate energy, L/R = %g, %d triangles", L, 20*level*level),
+		Source:    "far-field series, leading term Casimir & Polder 1948 (DESIGN §8)",
+		Tolerance: tol,
+		Long:      long,
+		Run: func(ctx context.Context, threads int) (float64, float64, error) {
+			m, err := mesh.SphereLevel(1, level)
+			if err != nil {
+				return 0, 0, err
+			}
+			bodies := []scatter.Body{{Name: "sphere", Mesh: m.Translate(r3.Vec{Z: L})}}
+			sw := scatter.Sweep{Body: 0, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}}
+			set := scatter.Settings{Accuracy: 1e-4, Threads: threads, Substrate: &scatter.Plane{Normal: r3.Vec{Z: 1}}}
+			pts, err := scatter.Energies(ctx, bodies, sw, set)
+			if err != nil {
+				return 0, 0, err
+			}
+			return pts[0].Energy, SpherePlaneFar(m.EquivalentRadius(), L), nil
+		},
 	}
 }
 

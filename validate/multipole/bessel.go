@@ -132,7 +132,17 @@ func BesselI(l int, x float64) float64 {
 	case math.IsInf(x, 1):
 		return math.Inf(1)
 	}
-	return math.Exp(newBesselRatios(l+1, x).logI(l))
+	b := newBesselRatios(l+1, x)
+	var p scaledProduct
+	if x < 20 {
+		p.mul(math.Sinh(x) / x)
+	} else {
+		p.mulExp(x - math.Log(2*x) + math.Log1p(-math.Exp(-2*x)))
+	}
+	for k := 1; k <= l; k++ {
+		p.mul(x * b.p[k])
+	}
+	return p.value()
 }
 
 // BesselK returns the modified spherical Bessel function of the second kind in
@@ -149,7 +159,48 @@ func BesselK(l int, x float64) float64 {
 	case math.IsInf(x, 1):
 		return 0
 	}
-	return math.Exp(newBesselRatios(l+1, x).logK(l))
+	b := newBesselRatios(l+1, x)
+	var p scaledProduct
+	p.mulExp(-x)
+	p.mul(1 / x)
+	for k := 1; k <= l; k++ {
+		p.mul(b.q[k] / x)
+	}
+	return p.value()
+}
+
+// scaledProduct accumulates a product of positive factors as mantissa ×
+// 2^exponent, so that intermediate values neither overflow nor underflow and
+// the rounding error grows only linearly with the number of factors.
+type scaledProduct struct {
+	m   float64
+	exp int
+	set bool
+}
+
+func (p *scaledProduct) mul(f float64) {
+	if !p.set {
+		p.m, p.set = 1, true
+	}
+	fm, fe := math.Frexp(f)
+	p.m *= fm
+	p.exp += fe
+	m, e := math.Frexp(p.m)
+	p.m, p.exp = m, p.exp+e
+}
+
+// mulExp multiplies by e^y.
+func (p *scaledProduct) mulExp(y float64) {
+	n := math.Floor(y / math.Ln2)
+	p.mul(math.Exp(y - n*math.Ln2))
+	p.exp += int(n)
+}
+
+func (p *scaledProduct) value() float64 {
+	if !p.set {
+		return 1
+	}
+	return math.Ldexp(p.m, p.exp)
 }
 
 // sphereScales holds, for one sphere of radius R at one κ ≥ 0, the quantities

@@ -8,7 +8,7 @@ import (
 )
 
 // errNotPositive reports a Cholesky breakdown of I - G.
-var errNotPositive = errors.New("I - N is not positive definite")
+var errNotPositive = errors.New("I - N is not positive definite (numerical breakdown of the round trip; check the gap and lmax)")
 
 // nearIdentityCholesky factors M = I - G = L Lᵀ for symmetric G, n×n. The
 // diagonal is carried as its deviation from 1, δ_k = M_kk - 1 - Σ_j L_kj², so

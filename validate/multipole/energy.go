@@ -15,42 +15,43 @@ import (
 // negative for attraction) from the analytic derivative of the translation
 // matrices, each with an error estimate (quadrature plus multipole truncation).
 //
-// The κ integral is Gauss–Kronrod (15 points per panel) in κ = κc t/(1-t),
-// κc = 1/(2 gap); its panels are chosen on a cheap low-order model of the
-// integrand and measured against a reference 50 times tighter (designRule).
+// The κ integral is Gauss–Kronrod (15 points per panel) in κ = -κc ln(1-t);
+// κc and the panels are chosen on a cheap low-order model of the integrand and
+// the rule's error is measured there against a tighter reference (designRule).
 // With cfg.LMax = 0 the multipole order is predicted from the convergence of
-// the integrands at κ = 1/gap (chooseLMax) and then verified: the integral is redone on
-// the Gauss points at a lower order (lowerLMax) and the order raised until energy
-// and force change by less than cfg.Tol/2.
+// the integrands at κ = 1/gap (chooseLMax) and then verified: the integral is
+// redone on the Gauss points at a lower order (lowerLMax), and the order is
+// raised (comparing whole integrals between successive orders) until energy and
+// force change by less than cfg.Tol/2.
 func Energy(ctx context.Context, cfg Config) (Result, error) {
 	c, err := cfg.validated()
 	if err != nil {
 		return Result{}, err
 	}
-	km := newKappaMap(c.gap())
 	var r Result
 	lmax := c.LMax
 	if lmax == 0 {
 		var n int
-		lmax, n, err = chooseLMax(ctx, &c, 2*km.kc, c.Tol)
+		lmax, n, err = chooseLMax(ctx, &c, 1/c.gap(), c.Tol)
 		r.Evaluations += n
 		if err != nil {
-			return Result{}, fmt.Errorf("energy: %w", err)
+			return Result{}, fmt.Errorf("multipole: energy: %w", err)
 		}
 	}
-	rule, quadErr, n, err := designRule(ctx, &c, km, max(3, lmax/2), c.Tol)
+	design, quadErr, n, err := designRule(ctx, &c, min(lmax, max(6, lmax/4)), c.Tol)
 	r.Evaluations += n
 	if err != nil {
-		return Result{}, fmt.Errorf("energy: %w", err)
+		return Result{}, fmt.Errorf("multipole: energy: %w", err)
 	}
 	// Safety factor 2 on the measured quadrature error (the rule was measured
 	// at a lower order).
 	quadErr *= 2
-	ps := slices.Clone(rule)
+	km := design.m
+	ps := slices.Clone(design.panels)
 	n, err = evalPanels(ctx, &c, km, ps, lmax)
 	r.Evaluations += n
 	if err != nil {
-		return Result{}, fmt.Errorf("energy at lmax = %d: %w", lmax, err)
+		return Result{}, fmt.Errorf("multipole: energy at lmax = %d: %w", lmax, err)
 	}
 	s := 1 / (2 * math.Pi)
 	e, _, f, _ := panelSums(ps)
@@ -59,13 +60,13 @@ func Energy(ctx context.Context, cfg Config) (Result, error) {
 	if c.LMax > 0 {
 		return r, nil
 	}
-	lower := lowerLMax(lmax)
+	// Truncation check: the same rule on its Gauss points at a lower order.
+	de, df, n, err := gaussDifference(ctx, &c, km, ps, lowerLMax(lmax))
+	r.Evaluations += n
+	if err != nil {
+		return Result{}, fmt.Errorf("multipole: energy at lmax = %d: %w", lowerLMax(lmax), err)
+	}
 	for {
-		de, df, n, err := gaussDifference(ctx, &c, km, ps, lower)
-		r.Evaluations += n
-		if err != nil {
-			return Result{}, fmt.Errorf("energy at lmax = %d: %w", lower, err)
-		}
 		de, df = math.Abs(s*de), math.Abs(s*df)
 		if de <= 0.5*c.Tol*math.Abs(r.Energy) && df <= 0.5*c.Tol*math.Abs(r.Force) {
 			r.EnergyError += de
@@ -76,16 +77,22 @@ func Energy(ctx context.Context, cfg Config) (Result, error) {
 		if next > maxLMax {
 			return r, fmt.Errorf("multipole: energy not converged by lmax = %d (change %g against tolerance %g)", lmax, de/math.Abs(r.Energy), c.Tol)
 		}
-		ps = slices.Clone(rule)
+		prev := ps
+		ps = slices.Clone(design.panels)
 		n, err = evalPanels(ctx, &c, km, ps, next)
 		r.Evaluations += n
 		if err != nil {
-			return Result{}, fmt.Errorf("energy at lmax = %d: %w", next, err)
+			return Result{}, fmt.Errorf("multipole: energy at lmax = %d: %w", next, err)
 		}
 		e, _, f, _ = panelSums(ps)
 		r.Energy, r.Force, r.LMax = s*e, s*f, next
 		r.EnergyError, r.ForceError = quadErr*math.Abs(r.Energy), quadErr*math.Abs(r.Force)
-		lower, lmax = lmax, next
+		de, df = 0, 0
+		for i := range ps {
+			pe, pf := ps[i].e-prev[i].e, ps[i].f-prev[i].f
+			de, df = de+pe, df+pf
+		}
+		lmax = next
 	}
 }
 
@@ -115,7 +122,7 @@ func FreeEnergy(ctx context.Context, cfg Config, thermalWavenumber float64) (Res
 		lmax, n, err = chooseLMax(ctx, &c, math.Min(1/c.gap(), thermalWavenumber), c.Tol)
 		r.Evaluations += n
 		if err != nil {
-			return Result{}, fmt.Errorf("free energy: %w", err)
+			return Result{}, fmt.Errorf("multipole: free energy: %w", err)
 		}
 	}
 	terms, err := matsubaraTerms(ctx, &c, thermalWavenumber, lmax)
@@ -179,7 +186,7 @@ func matsubaraTerms(ctx context.Context, c *Config, dk float64, lmax int) (matsu
 		}
 		ld, tr, err := evaluate(ctx, c, kappas, lmax, true)
 		if err != nil {
-			return m, fmt.Errorf("free energy at lmax = %d: %w", lmax, err)
+			return m, fmt.Errorf("multipole: free energy at lmax = %d: %w", lmax, err)
 		}
 		for i, k := range kappas {
 			w := 1.0
@@ -208,7 +215,7 @@ func matsubaraTerms(ctx context.Context, c *Config, dk float64, lmax int) (matsu
 func matsubaraSum(ctx context.Context, c *Config, kappas []float64, lmax int) (e, f float64, err error) {
 	ld, tr, err := evaluate(ctx, c, kappas, lmax, true)
 	if err != nil {
-		return 0, 0, fmt.Errorf("free energy at lmax = %d: %w", lmax, err)
+		return 0, 0, fmt.Errorf("multipole: free energy at lmax = %d: %w", lmax, err)
 	}
 	for i := range kappas {
 		w := 1.0

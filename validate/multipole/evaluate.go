@@ -42,7 +42,7 @@ func evaluate(ctx context.Context, cfg *Config, kappas []float64, lmax int, want
 	setups := make([]*kappaSetup, len(kappas))
 	for i, k := range kappas {
 		if !(k >= 0) || math.IsInf(k, 0) {
-			return nil, nil, fmt.Errorf("multipole: κ = %g: the imaginary wavenumber must be finite and ≥ 0", k)
+			return nil, nil, fmt.Errorf("κ = %g: the imaginary wavenumber must be finite and ≥ 0", k)
 		}
 		setups[i] = newKappaSetup(cfg, k, lmax, lf)
 	}
@@ -73,7 +73,7 @@ func evaluate(ctx context.Context, cfg *Config, kappas []float64, lmax int, want
 				if err != nil {
 					mu.Lock()
 					if firstErr == nil {
-						firstErr = fmt.Errorf("multipole: κ = %g, lmax = %d: %w", kappas[t.ki], lmax, err)
+						firstErr = fmt.Errorf("κ = %g, lmax = %d: %w", kappas[t.ki], lmax, err)
 					}
 					mu.Unlock()
 					cancel()
@@ -100,7 +100,7 @@ feed:
 		return nil, nil, firstErr
 	}
 	if err := ctx.Err(); err != nil {
-		return nil, nil, fmt.Errorf("multipole: %w", err)
+		return nil, nil, err
 	}
 	logDet = make([]float64, len(kappas))
 	trace = make([]float64, len(kappas))
@@ -133,14 +133,14 @@ func LogDet(cfg Config, kappa float64) (float64, int, error) {
 	if c.LMax > 0 {
 		ld, _, err := evaluate(ctx, &c, one, c.LMax, false)
 		if err != nil {
-			return 0, 0, err
+			return 0, 0, fmt.Errorf("multipole: ln det: %w", err)
 		}
 		return ld[0], c.LMax, nil
 	}
 	l := startLMax(&c)
 	prev, _, err := evaluate(ctx, &c, one, l, false)
 	if err != nil {
-		return 0, 0, err
+		return 0, 0, fmt.Errorf("multipole: ln det: %w", err)
 	}
 	for {
 		l2 := nextLMax(l)
@@ -149,7 +149,7 @@ func LogDet(cfg Config, kappa float64) (float64, int, error) {
 		}
 		cur, _, err := evaluate(ctx, &c, one, l2, false)
 		if err != nil {
-			return 0, 0, err
+			return 0, 0, fmt.Errorf("multipole: ln det: %w", err)
 		}
 		if math.Abs(cur[0]-prev[0]) <= c.Tol*math.Abs(cur[0]) {
 			return cur[0], l2, nil
@@ -157,4 +157,3 @@ func LogDet(cfg Config, kappa float64) (float64, int, error) {
 		l, prev = l2, cur
 	}
 }
-

@@ -9,13 +9,16 @@ import (
 
 // The κ integral runs in the mapped variable t ∈ [0, tMax],
 //
-//	κ = κc t/(1-t),   dκ = κc/(1-t)² dt,   κc = 1/(2 gap),
+//	κ = -κc ln(1 - t),   dκ = κc/(1 - t) dt,
 //
-// which puts half of t on κ < κc, where the integrand (falling like
-// e^{-2κ gap}) has most of its weight, and sends t → 1 to κ → ∞; tMax is
-// κ = 40/gap, beyond which the integrand is below e^{-80} of its peak.
+// under which an integrand decaying like e^{-aκ} becomes κc (1-t)^{aκc - 1}
+// times a slowly varying factor: for aκc ≳ 1 that is close to a polynomial in
+// t, and a single 15-point Gauss–Kronrod panel is often enough for 1e-7. The
+// integrand decays like e^{-2κ gap}, and κc is chosen among 1/gap, 2/gap and
+// 4/gap by designRule. tMax corresponds to κ = 40/gap, beyond which the
+// integrand is below e^{-80} of its value at κ = 0.
 
-// panel is one interval of the adaptive rule with the integrand at its 15
+// panel is one interval of the rule with the integrand at its 15
 // Gauss–Kronrod points (Jacobian included) and the resulting integrals.
 type panel struct {
 	a, b   float64
@@ -28,14 +31,13 @@ type panel struct {
 // kappaMap is the substitution κ(t).
 type kappaMap struct{ kc, tMax float64 }
 
-func newKappaMap(gap float64) kappaMap {
-	kc := 0.5 / gap
-	kMax := kappaMaxGaps / gap
-	return kappaMap{kc: kc, tMax: kMax / (kMax + kc)}
+func newKappaMap(gap, kcGaps float64) kappaMap {
+	kc := kcGaps / gap
+	return kappaMap{kc: kc, tMax: -math.Expm1(-kappaMaxGaps / gap / kc)}
 }
 
 func (m kappaMap) at(t float64) (kappa, jac float64) {
-	return m.kc * t / (1 - t), m.kc / ((1 - t) * (1 - t))
+	return -m.kc * math.Log1p(-t), m.kc / (1 - t)
 }
 
 // gaussIndex lists the Kronrod points that are also the 7 Gauss points.
@@ -113,59 +115,94 @@ func panelSums(ps []panel) (e, eErr, f, fErr float64) {
 	return e, eErr, f, fErr
 }
 
-// designRule chooses the panels for the κ integral. It refines adaptively at
-// order lmax (cheap) down to a reference accuracy of tol/50, then returns the
-// coarsest panel set met along the way whose energy and force integrals agree
-// with that reference to tol/4, together with that measured relative error (at
-// least the reference's own estimate). The integrand's shape in κ hardly
-// depends on lmax, so the rule carries over to the order of the final result.
-func designRule(ctx context.Context, c *Config, m kappaMap, lmax int, tol float64) (rule []panel, quadErr float64, evals int, err error) {
-	ps := []panel{{a: 0, b: 0.5 * m.tMax}, {a: 0.5 * m.tMax, b: m.tMax}}
-	n, err := evalPanels(ctx, c, m, ps, lmax)
+// rule is a quadrature rule for the κ integral: a map and its panels.
+type rule struct {
+	m      kappaMap
+	panels []panel
+}
+
+func (r rule) nodes() int { return 15 * len(r.panels) }
+
+func newRule(m kappaMap, splits ...float64) rule {
+	r := rule{m: m}
+	for i := 0; i+1 < len(splits); i++ {
+		r.panels = append(r.panels, panel{a: splits[i] * m.tMax, b: splits[i+1] * m.tMax})
+	}
+	return r
+}
+
+// designRule chooses the quadrature rule for the κ integral on a cheap model,
+// the integrand at order lmax (low). It computes a reference by adaptive
+// bisection (κc = 1/gap) to a QUADPACK error estimate of tol/20 (an estimate
+// that in practice exceeds the true error by orders of magnitude), then tries
+// candidate rules in order of cost (one panel, two, three; κc = 1, 2, 4 per
+// gap) and returns the cheapest whose energy and force integrals agree with the
+// reference to tol/4, with its measured relative error (at least the
+// reference's own estimate). Failing those it returns the reference rule. The
+// integrand's shape in κ depends little on lmax, so the rule carries over to the
+// order of the final result.
+func designRule(ctx context.Context, c *Config, lmax int, tol float64) (best rule, quadErr float64, evals int, err error) {
+	gap := c.gap()
+	ref := newRule(newKappaMap(gap, 1), 0, 0.5, 1)
+	n, err := evalPanels(ctx, c, ref.m, ref.panels, lmax)
 	evals += n
 	if err != nil {
-		return nil, 0, evals, err
+		return rule{}, 0, evals, err
 	}
-	type stage struct {
-		ps   []panel
-		e, f float64
-	}
-	var history []stage
-	refTol := tol / 50
+	refTol := tol / 20
+	var e, eErr, f, fErr float64
 	for iter := 0; ; iter++ {
-		e, eErr, f, fErr := panelSums(ps)
-		history = append(history, stage{slices.Clone(ps), e, f})
+		e, eErr, f, fErr = panelSums(ref.panels)
 		if eErr <= refTol*math.Abs(e) && fErr <= refTol*math.Abs(f) {
-			refErr := math.Max(eErr/math.Abs(e), fErr/math.Abs(f))
-			for _, s := range history {
-				meas := math.Max(math.Abs(s.e-e)/math.Abs(e), math.Abs(s.f-f)/math.Abs(f))
-				if meas <= tol/4 {
-					return s.ps, math.Max(meas, refErr), evals, nil
-				}
-			}
-			return ps, refErr, evals, nil
+			break
 		}
-		if iter > 60 || len(ps) > 400 {
-			return nil, 0, evals, fmt.Errorf("multipole: κ quadrature did not reach %g after %d panels (energy error %g of %g)", refTol, len(ps), eErr, e)
+		if iter > 60 || len(ref.panels) > 400 {
+			return rule{}, 0, evals, fmt.Errorf("κ quadrature did not reach %g after %d panels (energy error %g of %g)", refTol, len(ref.panels), eErr, e)
 		}
 		// Bisect the panel with the largest share of the (normalised) error.
 		worst, wErr := 0, -1.0
-		for i, p := range ps {
+		for i, p := range ref.panels {
 			if v := p.eErr/(math.Abs(e)+1e-300) + p.fErr/(math.Abs(f)+1e-300); v > wErr {
 				worst, wErr = i, v
 			}
 		}
-		p := ps[worst]
+		p := ref.panels[worst]
 		mid := 0.5 * (p.a + p.b)
 		halves := []panel{{a: p.a, b: mid}, {a: mid, b: p.b}}
-		n, err := evalPanels(ctx, c, m, halves, lmax)
+		n, err := evalPanels(ctx, c, ref.m, halves, lmax)
 		evals += n
 		if err != nil {
-			return nil, 0, evals, err
+			return rule{}, 0, evals, err
 		}
-		ps = append(slices.Delete(slices.Clone(ps), worst, worst+1), halves...)
-		slices.SortFunc(ps, func(x, y panel) int { return cmpFloat(x.a, y.a) })
+		ref.panels = append(slices.Delete(ref.panels, worst, worst+1), halves...)
+		slices.SortFunc(ref.panels, func(x, y panel) int { return cmpFloat(x.a, y.a) })
 	}
+	refErr := math.Max(eErr/math.Abs(e), fErr/math.Abs(f))
+
+	splits := [][]float64{{0, 1}, {0, 0.5, 1}, {0, 0.8, 1}, {0, 0.5, 0.85, 1}}
+	for _, sp := range splits {
+		var found bool
+		for _, kcGaps := range []float64{1, 2, 4} {
+			cand := newRule(newKappaMap(gap, kcGaps), sp...)
+			if cand.nodes() >= ref.nodes() {
+				continue
+			}
+			n, err := evalPanels(ctx, c, cand.m, cand.panels, lmax)
+			evals += n
+			if err != nil {
+				return rule{}, 0, evals, err
+			}
+			ce, _, cf, _ := panelSums(cand.panels)
+			meas := math.Max(math.Abs(ce-e)/math.Abs(e), math.Abs(cf-f)/math.Abs(f))
+			if meas <= tol/4 && (!found || meas < quadErr) {
+				best, quadErr, found = cand, meas, true
+			}
+		}
+		if found {
+			return best, math.Max(quadErr, refErr), evals, nil
+		}
+	}
+	return ref, refErr, evals, nil
 }
 
 func cmpFloat(a, b float64) int {

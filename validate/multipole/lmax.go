@@ -17,12 +17,13 @@ func lowerLMax(l int) int { return max(1, l-max(2, l/12)) }
 // Tr[(I-N)^{-1} dN/dL] at the representative κ (1/gap: there the relative
 // truncation errors of both integrands are close to those of the energy and
 // the force) are converged well enough that the check of Energy (the change
-// from lowerLMax(l) to l) stays below tol/3 relative. It raises the order
-// (nextLMax) while measuring the geometric rate of the last two changes of
-// each quantity, and returns the smallest order predicted to pass as soon as
-// that order has been reached, with the number of evaluations. The prediction
-// is only a starting point: Energy and FreeEnergy verify the truncation error
-// of their own results.
+// from lowerLMax(l) to l) stays below tol/3 relative. It raises the order,
+// measuring the geometric rate of the last two changes of each quantity;
+// once a rate is known it jumps to the order predicted to pass (at most one
+// nextLMax step ahead), and it returns the smallest order predicted to pass as
+// soon as that order has been reached, with the number of evaluations. The
+// prediction is only a starting point: Energy and FreeEnergy verify the
+// truncation error of their own results.
 func chooseLMax(ctx context.Context, c *Config, kappa, tol float64) (int, int, error) {
 	evals := 0
 	var ls []int
@@ -40,10 +41,10 @@ func chooseLMax(ctx context.Context, c *Config, kappa, tol float64) (int, int, e
 	if err := add(l); err != nil {
 		return 0, evals, err
 	}
+	next := nextLMax(l)
 	for {
-		next := nextLMax(l)
 		if next > maxLMax {
-			return 0, evals, fmt.Errorf("multipole: κ = %g: ln det not converged to %g by lmax = %d", kappa, tol, l)
+			return 0, evals, fmt.Errorf("κ = %g: ln det not converged to %g by lmax = %d", kappa, tol, l)
 		}
 		if err := add(next); err != nil {
 			return 0, evals, err
@@ -54,13 +55,18 @@ func chooseLMax(ctx context.Context, c *Config, kappa, tol float64) (int, int, e
 		if okF && okG {
 			return max(bestF, bestG), evals, nil
 		}
+		next = nextLMax(l)
+		if bestF > 0 && bestG > 0 {
+			// Both rates are known: go straight to the predicted order.
+			next = min(next, max(l+2, bestF, bestG))
+		}
 	}
 }
 
 // predictLMax fits e(l) = A e^{-ρl} to the last two changes of vals (at
-// orders ls) and reports whether the last order already passes the check
-// |v(lowerLMax(l)) - v(l)| ≤ tol |v|, and then the smallest order predicted
-// to pass.
+// orders ls). It reports whether the last order already passes the check
+// |v(lowerLMax(l)) - v(l)| ≤ tol |v| and the smallest order predicted to pass
+// (0 when no rate can be measured yet).
 func predictLMax(ls []int, vals []float64, tol float64) (bool, int) {
 	k := len(vals) - 1
 	if k < 2 {
@@ -82,10 +88,13 @@ func predictLMax(ls []int, vals []float64, tol float64) (bool, int) {
 		e := ek * math.Exp(-rho*float64(l-ls[k]))
 		return e*math.Expm1(rho*float64(l-lowerLMax(l))) <= target
 	}
-	if !pass(ls[k]) {
-		return false, 0
-	}
 	best := ls[k]
+	if !pass(best) {
+		for best < maxLMax && !pass(best) {
+			best++
+		}
+		return false, best
+	}
 	for m := ls[k] - 1; m >= ls[0] && pass(m); m-- {
 		best = m
 	}

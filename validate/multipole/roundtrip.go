@@ -72,9 +72,9 @@ func newKappaSetup(cfg *Config, kappa float64, lmax int, lf logFactorials) *kapp
 
 // workspace holds the buffers of one worker, reused across blocks.
 type workspace struct {
-	v, dv, g []float64
-	d1, d2, c       []float64
-	chol            nearIdentityCholesky
+	v, c, g, dy []float64
+	d1, d2, sg  []float64
+	chol        nearIdentityCholesky
 }
 
 func grow(b []float64, n int) []float64 {
@@ -99,56 +99,50 @@ func grow(b []float64, n int) []float64 {
 //
 // with V = U21 (scaled) and Π the plane's reflection signs. I - CᵀC and I - Y
 // are positive definite (the round trip is a contraction); ln det comes from a
-// Cholesky factorisation that keeps the digits of tiny round trips.
+// Cholesky factorisation I - CᵀC = L Lᵀ that keeps the digits of tiny round
+// trips. With dV/dd = Ĝ V_ext (generator, banded) the derivatives are
+//
+//	sphere-sphere:  Tr[(I-N)^{-1} dN/dL] = 2 Tr[(I-CᵀC)^{-1} Cᵀ D2^½ Ĝ H]
+//	                = 2 Σ_j D2_j Σ_k Ĝ_jk P_k·P_j,   H = V_ext D1^½,  P = H L^{-T},
+//	sphere-plane:   Tr[(I-Y)^{-1} Y'],  Y' = 2 D^½ (Ĝ V_ext) Π J D^½  (dd/dL = 2),
+//
+// costing one triangular solve (two spheres) or one inverse (plane).
 func (ks *kappaSetup) block(m int, wantTrace bool, ws *workspace) (logDet, trace float64, err error) {
 	cfg := ks.cfg
 	lmax := ks.lmax
 	t := newScalarTranslation(m, ks.d, ks.row, ks.col, ks.lnEta, ks.lf, ks.jmax, lmax)
 
 	// Basis of the block: scalar l = m..lmax; vector (TE then TM) l = max(1,m)..lmax.
-	var n, lo int
+	var n, lo, nExt int
 	vector := cfg.Field == Electromagnetic
 	if vector {
 		lo = max(1, m)
 		n = 2 * (lmax - lo + 1)
+		nExt = n + 2
 	} else {
 		lo = m
 		n = lmax - lo + 1
+		nExt = n + 1
 	}
 	if n <= 0 {
 		return 0, 0, nil
 	}
 	nl := lmax - lo + 1
-	ws.v = grow(ws.v, n*n)
-	if wantTrace {
-		ws.dv = grow(ws.dv, n*n)
-	}
-	v, dv := ws.v, ws.dv
+	// V_ext: rows of the block, then the extra rows j = lmax+1.
+	ws.v = grow(ws.v, nExt*n)
+	v := ws.v
 	if vector {
-		var dd []float64
-		if wantTrace {
-			dd = dv
-		}
-		vectorTranslation(t, lmax, v, dd)
+		vectorTranslation(t, lmax, true, v)
 	} else {
-		for j := lo; j <= lmax; j++ {
+		for j := lo; j <= lmax+1; j++ {
 			for l := lo; l <= lmax; l++ {
 				v[(j-lo)*n+(l-lo)] = t.at(j, l)
-				if wantTrace {
-					dv[(j-lo)*n+(l-lo)] = t.deriv(j, l)
-				}
 			}
-		}
-	}
-	if ks.single {
-		// The translation runs over 2L: dV/dL = 2 dV/dd.
-		for i := range dv {
-			dv[i] *= 2
 		}
 	}
 
 	// D^½ of both spheres and, for the plane, the signs Π J.
-	ws.d1, ws.d2, ws.c = grow(ws.d1, n), grow(ws.d2, n), grow(ws.c, n)
+	ws.d1, ws.d2, ws.sg = grow(ws.d1, n), grow(ws.d2, n), grow(ws.sg, n)
 	for i := 0; i < n; i++ {
 		l := lo + i
 		pol := scalarWave
@@ -159,8 +153,7 @@ func (ks *kappaSetup) block(m int, wantTrace bool, ws *workspace) (logDet, trace
 				pol = transverseMagnetic
 			}
 		}
-		t1 := scaledT(cfg.Field, pol, ks.col, l)
-		ws.d1[i] = math.Sqrt(math.Abs(t1))
+		ws.d1[i] = math.Sqrt(math.Abs(scaledT(cfg.Field, pol, ks.col, l)))
 		ws.d2[i] = math.Sqrt(math.Abs(scaledT(cfg.Field, pol, ks.row, l)))
 		// Reflection sign of the plane, times J = sign of T̂.
 		parity := 1.0
@@ -175,29 +168,33 @@ func (ks *kappaSetup) block(m int, wantTrace bool, ws *workspace) (logDet, trace
 		if cfg.Field == Dirichlet || pol == transverseElectric {
 			j = -1
 		}
-		ws.c[i] = pi * j
+		ws.sg[i] = pi * j
 	}
 
 	ws.g = grow(ws.g, n*n)
 	g := ws.g
-	gen := func(data []float64) blas64.General {
-		return blas64.General{Rows: n, Cols: n, Stride: n, Data: data}
-	}
 	if ks.single {
 		// G = Y = D^½ V Π J D^½ (symmetric; the lower triangle is used).
 		for i := 0; i < n; i++ {
 			for j := 0; j <= i; j++ {
-				g[i*n+j] = ws.d1[i] * v[i*n+j] * ws.c[j] * ws.d1[j]
+				g[i*n+j] = ws.d1[i] * v[i*n+j] * ws.sg[j] * ws.d1[j]
 			}
 		}
 	} else {
-		// C = D2^½ V D1^½ (in place of V), G = CᵀC.
-		for i := 0; i < n; i++ {
-			for j := 0; j < n; j++ {
-				v[i*n+j] *= ws.d2[i] * ws.d1[j]
+		// H = V_ext D1^½ (in place), C = D2^½ H (rows of the block), G = CᵀC.
+		for i := 0; i < nExt; i++ {
+			row := v[i*n : (i+1)*n]
+			for j := range row {
+				row[j] *= ws.d1[j]
 			}
 		}
-		blas64.Syrk(blas.Trans, 1, gen(v), 0,
+		ws.c = grow(ws.c, n*n)
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				ws.c[i*n+j] = ws.d2[i] * v[i*n+j]
+			}
+		}
+		blas64.Syrk(blas.Trans, 1, blas64.General{Rows: n, Cols: n, Stride: n, Data: ws.c}, 0,
 			blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: n, Data: g})
 	}
 	if err := ws.chol.factorize(g, n); err != nil {
@@ -207,35 +204,44 @@ func (ks *kappaSetup) block(m int, wantTrace bool, ws *workspace) (logDet, trace
 	if !wantTrace {
 		return logDet, 0, nil
 	}
+	gen := generator(t, lmax, vector)
 	lower := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: g}
 	if ks.single {
-		// Tr[(I - Y)^{-1} Y'], Y' = D^½ V' Π J D^½.
 		if _, ok := lapack64.Potri(lower); !ok {
 			return 0, 0, fmt.Errorf("m = %d: %w", m, errNotPositive)
 		}
+		// Y' = 2 D^½ (Ĝ V_ext) Π J D^½; trace = Σ_ij (I-Y)^{-1}_ij Y'_ji.
+		ws.dy = grow(ws.dy, n*n)
+		dy := ws.dy
 		for i := 0; i < n; i++ {
-			for j := 0; j <= i; j++ {
-				yij := ws.d1[i] * dv[i*n+j] * ws.c[j] * ws.d1[j]
-				if j == i {
-					trace += g[i*n+j] * yij
-					continue
+			row := dy[i*n : (i+1)*n]
+			for _, e := range gen[i] {
+				src := v[e.k*n : (e.k+1)*n]
+				for j, x := range src {
+					row[j] += e.g * x
 				}
-				yji := ws.d1[j] * dv[j*n+i] * ws.c[i] * ws.d1[i]
-				trace += g[i*n+j] * (yij + yji)
+			}
+			for j := range row {
+				row[j] *= 2 * ws.d1[i] * ws.sg[j] * ws.d1[j]
+			}
+		}
+		for i := 0; i < n; i++ {
+			trace += g[i*n+i] * dy[i*n+i]
+			for j := 0; j < i; j++ {
+				trace += g[i*n+j] * (dy[i*n+j] + dy[j*n+i])
 			}
 		}
 		return logDet, trace, nil
 	}
-	// 2 Tr[(I - CᵀC)^{-1} CᵀC'] = 2 Σ (C L^{-T}) ∘ (C' L^{-T}), C' = D2^½ V' D1^½.
-	for i := 0; i < n; i++ {
-		for j := 0; j < n; j++ {
-			dv[i*n+j] *= ws.d2[i] * ws.d1[j]
+	// P = H L^{-T} for all nExt rows of H.
+	blas64.Trsm(blas.Right, blas.Trans, 1, lower, blas64.General{Rows: nExt, Cols: n, Stride: n, Data: v})
+	for j := 0; j < n; j++ {
+		pj := v[j*n : (j+1)*n]
+		s := 0.0
+		for _, e := range gen[j] {
+			s += e.g * blas64.Dot(blas64.Vector{N: n, Inc: 1, Data: v[e.k*n : (e.k+1)*n]}, blas64.Vector{N: n, Inc: 1, Data: pj})
 		}
-	}
-	blas64.Trsm(blas.Right, blas.Trans, 1, lower, gen(v))
-	blas64.Trsm(blas.Right, blas.Trans, 1, lower, gen(dv))
-	for i, x := range v {
-		trace += x * dv[i]
+		trace += ws.d2[j] * ws.d2[j] * s
 	}
 	return logDet, 2 * trace, nil
 }

@@ -21,8 +21,8 @@ import "math"
 //	a⁺_l = sqrt(((l+1)²-m²)/((2l+1)(2l+3))),  a⁻_l = sqrt((l²-m²)/((2l-1)(2l+1))),
 //
 // using ∂_z(i_l Y_lm) = κ(a⁺_l i_{l+1} Y_{l+1,m} + a⁻_l i_{l-1} Y_{l-1,m}) and
-// ∂_z(k_l Y_lm) = -κ(a⁺_l k_{l+1} Y_{l+1,m} + a⁻_l k_{l-1} Y_{l-1,m}). The same
-// relation gives the derivative in d: ∂α_jl/∂d = κ(a⁺_{j-1} α_{j-1,l} + a⁻_{j+1} α_{j+1,l}).
+// ∂_z(k_l Y_lm) = -κ(a⁺_l k_{l+1} Y_{l+1,m} + a⁻_l k_{l-1} Y_{l-1,m}). The
+// derivative in d follows from the same ∂_z (see generator).
 //
 // Vector waves M_lm = ∇×(r ψ)/sqrt(l(l+1)), N_lm = ∇×M_lm/κ (so ∇×N = -κM):
 //
@@ -179,34 +179,31 @@ func newScalarTranslation(m int, d float64, row, col *sphereScales, lnEta []floa
 	return t
 }
 
-// deriv returns β'_jl = s^row_j (∂α_jl/∂d) s^col_l for j ≤ J-1-(l-m):
-// β'_jl = κ² up^r_{j-1} a⁺_{j-1} β_{j-1,l} + a⁻_{j+1} β_{j+1,l} / up^r_j.
-func (t *scalarTranslation) deriv(j, l int) float64 {
-	m := t.m
-	v := aMinus(j+1, m) * t.at(j+1, l) / t.row.up[j]
-	if j > m {
-		k := t.row.kappa
-		v += k * k * t.row.up[j-1] * aPlus(j-1, m) * t.at(j-1, l)
-	}
-	return v
-}
-
 // vectorTranslation fills the scaled electromagnetic translation matrix for
-// one m over l, j = lo..lmax, lo = max(1, m), n = lmax-lo+1, into dst (2n×2n,
-// row-major, TE rows/columns first): [[Â, B̂], [B̂, Â]]. If dDst is not nil it
-// receives ∂/∂d of the same matrix. t must have jmax ≥ lmax+2 when dDst is
-// wanted, lmax+1 otherwise.
-func vectorTranslation(t *scalarTranslation, lmax int, dst, dDst []float64) {
+// one m, columns l = lo..lmax (lo = max(1, m), nl = lmax-lo+1, n = 2nl, TE then
+// TM) into dst, row-major with stride n. The rows are TE j = lo..lmax, TM
+// j = lo..lmax and, if ext, two more: TE and TM j = lmax+1 (what the
+// generator of dU/dd needs): [[Â, B̂], [B̂, Â]]. t must have jmax ≥ lmax+2.
+func vectorTranslation(t *scalarTranslation, lmax int, ext bool, dst []float64) {
 	m := t.m
 	lo := max(1, m)
-	n := lmax - lo + 1
+	nl := lmax - lo + 1
+	n := 2 * nl
 	kappa := t.row.kappa
 	k2 := kappa * kappa
 	d := t.d
 	up := t.row.up
-	for j := lo; j <= lmax; j++ {
+	jtop := lmax
+	if ext {
+		jtop = lmax + 1
+	}
+	for j := lo; j <= jtop; j++ {
 		fj := float64(j)
 		ap, am := aPlus(j, m), aMinus(j, m)
+		rTE, rTM := j-lo, j-lo+nl
+		if j > lmax {
+			rTE, rTM = n, n+1
+		}
 		for l := lo; l <= lmax; l++ {
 			norm := 1 / math.Sqrt(fj*(fj+1)*float64(l*(l+1)))
 			b := t.at(j, l)
@@ -216,25 +213,80 @@ func vectorTranslation(t *scalarTranslation, lmax int, dst, dDst []float64) {
 			}
 			a *= norm
 			bb := float64(m) * kappa * d * b * norm
-			ij, il := j-lo, l-lo
-			dst[ij*2*n+il] = a
-			dst[(ij+n)*2*n+il+n] = a
-			dst[ij*2*n+il+n] = bb
-			dst[(ij+n)*2*n+il] = bb
-			if dDst == nil {
-				continue
-			}
-			db := t.deriv(j, l)
-			da := fj*(fj+1)*db + fj*ap*(t.at(j+1, l)+d*t.deriv(j+1, l))/up[j]
-			if am != 0 {
-				da -= k2 * up[j-1] * (fj + 1) * am * (t.at(j-1, l) + d*t.deriv(j-1, l))
-			}
-			da *= norm
-			dbb := float64(m) * kappa * (b + d*db) * norm
-			dDst[ij*2*n+il] = da
-			dDst[(ij+n)*2*n+il+n] = da
-			dDst[ij*2*n+il+n] = dbb
-			dDst[(ij+n)*2*n+il] = dbb
+			il := l - lo
+			dst[rTE*n+il] = a
+			dst[rTM*n+il+nl] = a
+			dst[rTE*n+il+nl] = bb
+			dst[rTM*n+il] = bb
 		}
 	}
+}
+
+// genEntry is one non-zero Ĝ_ik of the generator.
+type genEntry struct {
+	k int
+	g float64
+}
+
+// generator returns the scaled generator of axial translations for the
+// receiving sphere of t, row by row: dV̂/dd = Ĝ V̂_ext, with V̂_ext the scaled
+// translation matrix with its extra rows (j = lmax+1; index n, or n and n+1 for
+// TE and TM). Moving the receiving centre by δ ẑ re-expands its regular waves,
+// U(d+δ) = R(δ) U(d), so dU/dd = G U with G = R'(0), the matrix of ∂_z on
+// regular waves:
+//
+//	scalar:  ∂_z φ_k = κ (a⁺_k φ_{k+1} + a⁻_k φ_{k-1}),
+//	vector:  G^A_{j,j+1} = κ a⁺_j sqrt(j(j+2))/(j+1),  G^A_{j,j-1} = κ a⁻_j sqrt((j-1)(j+1))/j,
+//	         G^B̃_{jj} = m κ/(j(j+1))   (TE↔TM),
+//
+// the vector entries being the first order in δ of A and B̃ above with
+// α^{reg→reg}_jl(δ) = δ_jl + δ G^scalar_jl. Scaled, Ĝ_jk = s_j G_jk / s_k with
+// s_j/s_{j+1} = 1/(κ up_j), s_j/s_{j-1} = κ up_{j-1}.
+func generator(t *scalarTranslation, lmax int, vector bool) [][]genEntry {
+	m := t.m
+	kappa := t.row.kappa
+	k2 := kappa * kappa
+	up := t.row.up
+	if !vector {
+		lo := m
+		n := lmax - lo + 1
+		g := make([][]genEntry, n)
+		for j := lo; j <= lmax; j++ {
+			i := j - lo
+			g[i] = append(g[i], genEntry{i + 1, aMinus(j+1, m) / up[j]})
+			if j > lo {
+				g[i] = append(g[i], genEntry{i - 1, k2 * up[j-1] * aPlus(j-1, m)})
+			}
+		}
+		return g
+	}
+	lo := max(1, m)
+	nl := lmax - lo + 1
+	n := 2 * nl
+	g := make([][]genEntry, n)
+	for j := lo; j <= lmax; j++ {
+		fj := float64(j)
+		up1 := aPlus(j, m) * math.Sqrt(fj*(fj+2)) / ((fj + 1) * up[j])
+		dn1 := 0.0
+		if j > lo {
+			dn1 = k2 * up[j-1] * aMinus(j, m) * math.Sqrt((fj-1)*(fj+1)) / fj
+		}
+		mix := float64(m) * kappa / (fj * (fj + 1))
+		for pol := 0; pol < 2; pol++ {
+			i := j - lo + pol*nl
+			next := i + 1
+			if j == lmax {
+				next = n + pol
+			}
+			row := []genEntry{{next, up1}}
+			if j > lo {
+				row = append(row, genEntry{i - 1, dn1})
+			}
+			if mix != 0 {
+				row = append(row, genEntry{j - lo + (1-pol)*nl, mix})
+			}
+			g[i] = row
+		}
+	}
+	return g
 }

@@ -1,0 +1,99 @@
+package scatter
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/fluctus/fluctus/mesh"
+)
+
+var floor = &Plane{Normal: r3.Vec{Z: 1}}
+
+// TestPlaneGradientFiniteDifference checks the gradient with the substrate
+// (image motions included) against central differences of the integrand at
+// fixed κ, for one body and for two, with the same tolerance and reasons as
+// TestGradientFiniteDifference.
+func TestPlaneGradientFiniteDifference(t *testing.T) {
+	ball := sphere(t, 2).Translate(r3.Vec{X: 0.2, Z: 1.6})
+	box, err := mesh.Box(r3.Vec{X: 1.2, Y: 0.8, Z: 0.5}, 0.4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tilted := box.Rotate(r3.Vec{X: 1, Y: 0.5}, 0.35, r3.Vec{}).Translate(r3.Vec{X: -1.8, Y: 0.3, Z: 1.1})
+	scenes := [][]Body{
+		{{Name: "ball", Mesh: ball}},
+		{{Name: "box", Mesh: tilted}, {Name: "ball", Mesh: ball}},
+	}
+	centre := r3.Vec{X: 0.3, Y: 0.1, Z: 1.4}
+	for si, bodies := range scenes {
+		moving := len(bodies) - 1
+		sys, err := newSystem(bodies, moving, 0, floor)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sf, err := sys.factorSelf(context.Background(), 0.9)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev, err := sys.evaluate(context.Background(), sf, placement{centre: centre}, true)
+		if err != nil {
+			t.Fatal(err)
+		}
+		at := func(pl placement) float64 {
+			e, err := sys.evaluate(context.Background(), sf, pl, false)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return e.logDet
+		}
+		const h = 1e-4
+		var fd [6]float64
+		for i, ax := range []r3.Vec{{X: 1}, {Y: 1}, {Z: 1}} {
+			fd[i] = (at(placement{offset: r3.Scale(h, ax)}) - at(placement{offset: r3.Scale(-h, ax)})) / (2 * h)
+			fd[3+i] = (at(placement{turn: Turn{Axis: ax, Angle: h, Pivot: centre}}) -
+				at(placement{turn: Turn{Axis: ax, Angle: -h, Pivot: centre}})) / (2 * h)
+		}
+		scale := 0.0
+		for _, v := range fd {
+			scale = math.Max(scale, math.Abs(v))
+		}
+		for i := range fd {
+			if math.Abs(ev.grad[i]-fd[i]) > 1e-4*scale {
+				t.Errorf("scene %d component %d: analytic %.8g, finite difference %.8g", si, i, ev.grad[i], fd[i])
+			}
+		}
+	}
+}
+
+// TestPlaneInvariance: moving and turning the body and the plane together
+// leaves the energy unchanged (relative 1e-6, as for free bodies), and the
+// substrate attracts the body (E < 0, force towards the plane).
+func TestPlaneInvariance(t *testing.T) {
+	ball := sphere(t, 2).Translate(r3.Vec{Z: 1.7})
+	axis, angle := r3.Vec{X: 0.3, Y: 1, Z: 0.2}, 0.7
+	rot := r3.NewRotation(angle, r3.Unit(axis))
+	shift := r3.Vec{X: 5, Y: -3, Z: 2}
+	run := func(m *mesh.Mesh, p *Plane, dir r3.Vec) Point {
+		pts, err := Energies(context.Background(), []Body{{Name: "ball", Mesh: m}},
+			Sweep{Body: 0, Direction: dir, Offsets: []r3.Vec{{}}, Centre: m.Stats().Centroid}, Settings{Accuracy: 1e-4, Forces: true, Substrate: p})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return pts[0]
+	}
+	a := run(ball, floor, r3.Vec{Z: -1})
+	moved := ball.Rotate(axis, angle, r3.Vec{}).Translate(shift)
+	b := run(moved, &Plane{Point: shift, Normal: rot.Rotate(r3.Vec{Z: 1})}, rot.Rotate(r3.Vec{Z: -1}))
+	if math.Abs(b.Energy/a.Energy-1) > 1e-6 {
+		t.Errorf("energy %.12g, moved with the plane %.12g", a.Energy, b.Energy)
+	}
+	if !(a.Energy < 0) || !(a.Force.Z < 0) {
+		t.Errorf("energy %g, force %v: want attraction towards the plane", a.Energy, a.Force)
+	}
+	if d := r3.Norm(r3.Sub(rot.Rotate(a.Force), b.Force)); d > 1e-5*r3.Norm(a.Force) {
+		t.Errorf("force %v does not turn with the scene: %v", a.Force, b.Force)
+	}
+}
