@@ -25,9 +25,12 @@ type Moments struct {
 // use the edge-reduced inner integral (Kernel.Potential) with a Gauss rule for
 // the outer integral. Other pairs use product rules whose order falls with
 // distance: level i (centroid, 3-point, 7-point, collapsed 4×4, 6×6) serves
-// when h/r < Far[i] and κh < Decay[i]. The two criteria differ because a
-// degree-p rule's error grows like (h/r)^(p+1) for the 1/r part of the kernel
-// but like (κh)^(p+1)/(p+1)! for its exponential part.
+// when h/r < Far[i] and κh < Decay[i]·exp(κ(r-h)/(2(p_i+1))). The two
+// criteria differ because a degree-p rule's error grows like (h/r)^(p+1) for
+// the 1/r part of the kernel but like (κh)^(p+1)/(p+1)! for its exponential
+// part, and a pair that has decayed by exp(-κ(r-h)) against the near field of
+// its rows needs proportionally less relative accuracy (half of that decay is
+// spent).
 type Quadrature struct {
 	Near  float64
 	Far   []float64
@@ -50,6 +53,11 @@ func DefaultQuadrature() *Quadrature {
 		NearOuter: ruleRadon7, CloseOuter: ruleCollapsed4, Close: 1.5}
 }
 
+// negligible is the decay exponent κ(r - h) beyond which a pair's entries
+// fall below exp(-25) ≈ 1e-11 of the near-field entries of its rows, so that
+// the centroid rule serves whatever its relative error.
+const negligible = 25
+
 // level returns the far level for a pair, or -1 for a near pair, and the
 // centroid distance in units of the larger panel size.
 func (q *Quadrature) level(k Kernel, ps, pt *Panel) (int, float64) {
@@ -60,8 +68,17 @@ func (q *Quadrature) level(k Kernel, ps, pt *Panel) (int, float64) {
 		return -1, r / size
 	}
 	hr, kh := size/r, size*k.Wavenumber()
+	if k.Wavenumber()*(r-size) > negligible {
+		// The pair is weaker than the panel's own near field by more than
+		// exp(-negligible): any rule will do.
+		return 0, r / size
+	}
+	// A pair that has decayed by exp(-κ(r - h)) against the near field of
+	// its rows may carry a larger relative error: the (κh)^(p+1) growth of
+	// a degree-p rule's error is allowed to use half of that decay.
+	relax := k.Wavenumber() * (r - size) / 2
 	for i := range q.Far {
-		if hr < q.Far[i] && kh < q.Decay[i] {
+		if hr < q.Far[i] && kh < q.Decay[i]*math.Exp(relax/float64(panelRules[i].Degree+1)) {
 			return i, r / size
 		}
 	}

@@ -9,6 +9,7 @@ import (
 
 	"github.com/fluctus/fluctus/mesh"
 	"github.com/fluctus/fluctus/scatter"
+	"github.com/fluctus/fluctus/validate/multipole"
 )
 
 // Case is one comparison of fluctus against an outside reference: a
@@ -70,6 +71,59 @@ func allCases() []Case {
 		spherePlaneFar(10, 5, 0.01, false),
 		spherePlaneFar(20, 5, 0.01, false),
 		spherePlaneFar(10, 8, 0.005, true),
+		sphereReference(multipole.SphereSphere, 1, 5, 0.01, false),
+		sphereReference(multipole.SphereSphere, 0.5, 6, 0.01, false),
+		sphereReference(multipole.SphereSphere, 0.25, 10, 0.01, false),
+		sphereReference(multipole.SpherePlane, 1, 5, 0.01, false),
+		sphereReference(multipole.SpherePlane, 0.5, 6, 0.01, false),
+		sphereReference(multipole.SphereSphere, 0.5, 10, 0.004, true),
+		sphereReference(multipole.SphereSphere, 0.25, 14, 0.005, true),
+		sphereReference(multipole.SpherePlane, 0.5, 10, 0.002, true),
+	}
+}
+
+// sphereReference compares two equal spheres (or a sphere over the
+// substrate) at gap d/R with the independent multipole solution for spheres
+// of the faceted mesh's volume-equivalent radius at the same centres
+// (DESIGN §8: the faceted sphere is smaller than its circumsphere).
+func sphereReference(geom multipole.Geometry, dR float64, level int, tol float64, long bool) Case {
+	what := "sphere-sphere"
+	if geom == multipole.SpherePlane {
+		what = "sphere-substrate"
+	}
+	return Case{
+		Name:      fmt.Sprintf("%s energy, d/R = %g, %d triangles", what, dR, 20*level*level),
+		Source:    "multipole reference (scattering formula in spherical waves; Emig et al. 2007, Rahi et al. 2009), volume-equivalent radius",
+		Tolerance: tol,
+		Long:      long,
+		Run: func(ctx context.Context, threads int) (float64, float64, error) {
+			m, err := mesh.SphereLevel(1, level)
+			if err != nil {
+				return 0, 0, err
+			}
+			req := m.EquivalentRadius()
+			cfg := multipole.Config{Field: multipole.Electromagnetic, Geometry: geom, R1: req, R2: req, Tol: 1e-6}
+			var bodies []scatter.Body
+			set := scatter.Settings{Accuracy: 1e-4, Threads: threads}
+			if geom == multipole.SpherePlane {
+				cfg.L = 1 + dR
+				bodies = []scatter.Body{{Name: "sphere", Mesh: m.Translate(r3.Vec{Z: cfg.L})}}
+				set.Substrate = &scatter.Plane{Normal: r3.Vec{Z: 1}}
+			} else {
+				cfg.L = 2 + dR
+				bodies = []scatter.Body{{Name: "first", Mesh: m}, {Name: "second", Mesh: m.Translate(r3.Vec{Z: cfg.L})}}
+			}
+			sw := scatter.Sweep{Body: len(bodies) - 1, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}}
+			pts, err := scatter.Energies(ctx, bodies, sw, set)
+			if err != nil {
+				return 0, 0, err
+			}
+			ref, err := multipole.Energy(ctx, cfg)
+			if err != nil {
+				return 0, 0, err
+			}
+			return pts[0].Energy, ref.Energy, nil
+		},
 	}
 }
 

@@ -64,3 +64,26 @@ func SphereSpherePFA(R1, R2, d float64) float64 { return SpherePlanePFA(R1*R2/(R
 // perfectly conducting sphere near a plane, θ = 1/3 - 20/π² (Bimonte, Emig,
 // Jaffe & Kardar, EPL 97, 50001 (2012); recalled from memory).
 const DerivativeExpansionSlope = 1.0/3 - 20/(math.Pi*math.Pi)
+
+// SpherePlanePFAProfile is the proximity-force sum of DESIGN §7 taken over
+// the exact profile of the sphere's facing hemisphere rather than its
+// parabolic approximation, in ħc/L0:
+//
+//	E = -(π³/360) ∫_0^R ρ dρ / h(ρ)³,  h = d + R - √(R² - ρ²),
+//	  = -(π³/360) [(R+d)/(2d²) - 1/d + 1/(2(R+d))],
+//
+// (elementary integral with u = R - √(R² - ρ²)). Its leading term is
+// SpherePlanePFA; it is what a proximity sum over a fine sphere mesh tends to.
+func SpherePlanePFAProfile(R, d float64) float64 {
+	return -math.Pow(math.Pi, 3) / 360 * ((R+d)/(2*d*d) - 1/d + 1/(2*(R+d)))
+}
+
+// SphereSpherePFAProfile is the same for two equal spheres of radius R at gap
+// d, h = d + 2(R - √(R² - ρ²)):
+//
+//	E = -(π³/1440) [(2R+d)(1/(2d²) - 1/(2(d+2R)²)) - 1/d + 1/(d+2R)],
+//
+// whose leading term is SphereSpherePFA(R, R, d).
+func SphereSpherePFAProfile(R, d float64) float64 {
+	return -math.Pow(math.Pi, 3) / 1440 * ((2*R+d)*(1/(2*d*d)-1/(2*(d+2*R)*(d+2*R))) - 1/d + 1/(d+2*R))
+}
