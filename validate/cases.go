@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"time"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -28,6 +29,7 @@ type Result struct {
 	Case
 	Got, Want float64
 	Err       error
+	Elapsed   time.Duration
 }
 
 // Difference returns the relative difference |got/want - 1|.
@@ -53,8 +55,9 @@ func Cases(long bool) []Case {
 func Run(ctx context.Context, cases []Case, threads int, report func(Result)) []Result {
 	var res []Result
 	for _, c := range cases {
+		start := time.Now()
 		got, want, err := c.Run(ctx, threads)
-		r := Result{Case: c, Got: got, Want: want, Err: err}
+		r := Result{Case: c, Got: got, Want: want, Err: err, Elapsed: time.Since(start)}
 		res = append(res, r)
 		if report != nil {
 			report(r)
