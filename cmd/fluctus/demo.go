@@ -20,11 +20,14 @@ func (a *app) demoCommand() *cobra.Command {
 	var o runOptions
 	cmd := &cobra.Command{
 		Use:   "demo",
-		Short: "Run a built-in example: a sphere above a square contact pad",
-		Long: `Demo runs a built-in job: a conducting sphere of radius 1 um (a contact bump)
-moved towards a square contact pad of 3 um x 3 um x 0.5 um, to gaps of 2, 1.5
-and 1.2 um. The meshes are coarse (320 and 384 triangles), so the demo
-finishes in about a minute;
+		Short: "Run a built-in example: a nanobead on a soft spring above a contact pad",
+		Long: `Demo runs a built-in job, an invented nanomechanical contact: a conducting
+sphere of radius 10 nm (a metal nanobead at the tip of a nanotube cantilever of
+5e-4 N/m, relaxed 20 nm above the pad) moved towards a square contact pad of
+30 nm x 30 nm x 5 nm, to gaps of 20, 15 and 12 nm. It computes the energy, the
+force and the stiffness at each gap and decides whether the bead sticks to the
+pad, adding the gaps the sticking analysis asks for. The meshes are graded and
+coarse (under 250 triangles per body), so the demo finishes in about a minute;
 use "fluctus run" with finer meshes for numbers you rely on. Its job file is
 printed by "fluctus demo --print-job".
 

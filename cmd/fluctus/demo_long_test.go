@@ -63,10 +63,17 @@ func checkSpherePlate(t *testing.T, ps []report.Point) {
 
 func TestDemoEndToEnd(t *testing.T) {
 	ps := runReal(t, t.TempDir(), "demo", "--quiet")
-	if len(ps) != 3 {
-		t.Fatalf("%d points, want 3", len(ps))
+	var sweep []report.Point
+	for _, p := range ps {
+		if p.AddedFor == "" {
+			sweep = append(sweep, p)
+		}
 	}
-	checkSpherePlate(t, ps)
+	if len(sweep) != 3 {
+		t.Fatalf("%d sweep points, want 3", len(sweep))
+	}
+	checkSpherePlate(t, sweep)
+	checkForces(t, ps)
 }
 
 func TestExampleEndToEnd(t *testing.T) {
@@ -75,4 +82,40 @@ func TestExampleEndToEnd(t *testing.T) {
 		t.Fatalf("%d points, want 2", len(ps))
 	}
 	checkSpherePlate(t, ps)
+	checkForces(t, ps)
+}
+
+// TestSubstrateExample runs the README's sphere over the substrate: the
+// force attracts and stiffens towards the plane, and E/E_PFA lies below 1
+// and rises as the gap falls (DESIGN §8).
+func TestSubstrateExample(t *testing.T) {
+	ps := runReal(t, t.TempDir(), "run", filepath.Join(fixtureDir, "substrate.yaml"), "--quiet")
+	if len(ps) != 2 {
+		t.Fatalf("%d points, want 2", len(ps))
+	}
+	checkSpherePlate(t, ps)
+	checkForces(t, ps)
+}
+
+// TestMirrorExample runs the README's torsional mirror: the torque turns
+// the mirror towards the electrode and grows as it tilts closer.
+func TestMirrorExample(t *testing.T) {
+	ps := runReal(t, t.TempDir(), "run", filepath.Join(fixtureDir, "mirror.yaml"), "--quiet")
+	for i, p := range ps {
+		if p.TorqueAlongNm == nil || !(*p.TorqueAlongNm > 0) || p.TorsionalStiffness == nil || !(*p.TorsionalStiffness < 0) {
+			t.Errorf("point %d: torque %v, torsional stiffness %v", i, p.TorqueAlongNm, p.TorsionalStiffness)
+		}
+	}
+}
+
+// checkForces checks the forces of perfect conductors approaching each
+// other: attractive along the approach direction (F·ê > 0) and growing as
+// the body advances (stiffness -d(F·ê)/ds < 0).
+func checkForces(t *testing.T, ps []report.Point) {
+	t.Helper()
+	for i, p := range ps {
+		if p.ForceAlongN == nil || !(*p.ForceAlongN > 0) || p.StiffnessNPerM == nil || !(*p.StiffnessNPerM < 0) {
+			t.Errorf("point %d: force %v, stiffness %v", i, p.ForceAlongN, p.StiffnessNPerM)
+		}
+	}
 }

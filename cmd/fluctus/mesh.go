@@ -23,7 +23,10 @@ func (a *app) meshCommand() *cobra.Command {
 }
 
 func (a *app) meshInfoCommand() *cobra.Command {
-	var unit string
+	var (
+		unit, near string
+		atGap      float64
+	)
 	cmd := &cobra.Command{
 		Use:   "info FILE.stl --unit UNIT",
 		Short: "Print the statistics of an STL mesh and every problem found",
@@ -31,7 +34,13 @@ func (a *app) meshInfoCommand() *cobra.Command {
 its statistics with lengths in the given unit (STL files carry none). It then
 lists every problem that keeps the mesh from being a closed, consistently
 outward-oriented surface (open or non-manifold edges, flipped or degenerate
-triangles, ...) and exits with a non-zero status if there is any.`,
+triangles, ...) and exits with a non-zero status if there is any.
+
+With --near OTHER.stl it also measures the gap between the two meshes as they
+are placed in their files (or, with --gap G, after moving OTHER along z until
+it is G above FILE) and warns when triangles of FILE near the closest approach
+are larger than half the local gap (rule of thumb), saying where and
+suggesting a graded mesh size for the job file.`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			u, err := scatter.ParseUnit(unit)
@@ -49,8 +58,41 @@ triangles, ...) and exits with a non-zero status if there is any.`,
 			} else {
 				rows = append(rows, [2]string{"problems", "found, listed below"})
 			}
+			var warning string
+			if near == "" && cmd.Flags().Changed("gap") {
+				return fmt.Errorf("--gap needs --near OTHER.stl, the mesh to place at that gap")
+			}
+			if near != "" && len(problems) == 0 {
+				o, err := mesh.Load(near)
+				if err != nil {
+					return fmt.Errorf("--near: %w", err)
+				}
+				if cmd.Flags().Changed("gap") {
+					if !(atGap > 0) {
+						return fmt.Errorf("--gap %g: give a positive gap", atGap)
+					}
+					t, err := mesh.OffsetForGap(o, []*mesh.Mesh{m}, r3.Vec{Z: 1}, atGap)
+					if err != nil {
+						return fmt.Errorf("--gap: %w", err)
+					}
+					o = o.Translate(r3.Vec{Z: t})
+				}
+				gap, _, _ := mesh.Gap(m, o)
+				if !(gap > 0) || mesh.Overlap(m, o) {
+					return fmt.Errorf("--near: %s and %s touch or overlap as placed in their files: there is no gap to check the mesh against", args[0], near)
+				}
+				rows = append(rows, [2]string{"gap to " + near, fmt.Sprintf("%.6g %s", gap, u.Name())})
+				if warning = mesh.CoarseSummary(mesh.CoarseNear(m, []*mesh.Tree{mesh.NewTree(o)}, gap), gap); warning == "" {
+					rows = append(rows, [2]string{"near the gap", "no triangle larger than half the local gap"})
+				} else {
+					rows = append(rows, [2]string{"near the gap", "too coarse, see the warning"})
+				}
+			}
 			if err := report.WriteRows(a.stdout, rows); err != nil {
 				return err
+			}
+			if warning != "" {
+				fmt.Fprintf(a.stderr, "warning: %s (lengths in %s)\n", warning, u.Name())
 			}
 			if len(problems) == 0 {
 				return nil
@@ -62,6 +104,8 @@ triangles, ...) and exits with a non-zero status if there is any.`,
 		},
 	}
 	cmd.Flags().StringVar(&unit, "unit", "", "length unit of the file: nm, um, mm or m (required)")
+	cmd.Flags().StringVar(&near, "near", "", "another STL file: check the mesh against the gap to it")
+	cmd.Flags().Float64Var(&atGap, "gap", 0, "with --near: move the other mesh along z to this gap above the mesh first")
 	cmd.MarkFlagRequired("unit")
 	return cmd
 }

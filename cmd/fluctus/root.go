@@ -56,6 +56,6 @@ Start with "fluctus demo", then describe your own scene in a job file and use
 	root.CompletionOptions.HiddenDefaultCmd = true
 	root.SetOut(a.stdout)
 	root.SetErr(a.stderr)
-	root.AddCommand(a.runCommand(), a.demoCommand(), a.meshCommand())
+	root.AddCommand(a.runCommand(), a.demoCommand(), a.meshCommand(), a.plotCommand(), a.verifyCommand())
 	return root
 }

@@ -224,6 +224,19 @@ func (d *decoder) number(n *yaml.Node, key string) (float64, error) {
 	return x, nil
 }
 
+// boolean reads true or false.
+func (d *decoder) boolean(n *yaml.Node, key string) (bool, error) {
+	n = resolve(n)
+	if n.Kind != yaml.ScalarNode || n.ShortTag() != "!!bool" {
+		return false, d.errorf(n, key, "want true or false, got %s", describe(n))
+	}
+	var b bool
+	if err := n.Decode(&b); err != nil {
+		return false, d.errorf(n, key, "cannot read %s as true or false", describe(n))
+	}
+	return b, nil
+}
+
 // positive reads a number > 0; what says what the number is, for the message.
 func (d *decoder) positive(n *yaml.Node, key, what string) (float64, error) {
 	x, err := d.number(n, key)
@@ -311,7 +324,7 @@ func (d *decoder) require(fields map[string]field, at *yaml.Node, path, key, wha
 	return f.value, nil
 }
 
-var topKeys = []string{"unit", "temperature", "accuracy", "bodies", "sweep"}
+var topKeys = []string{"unit", "temperature", "accuracy", "forces", "torque_about", "substrate", "bodies", "sweep", "spring"}
 
 // job decodes the top-level mapping.
 func (d *decoder) job(root *yaml.Node, j *Job) error {
@@ -356,7 +369,26 @@ func (d *decoder) job(root *yaml.Node, j *Job) error {
 		j.Accuracy = a
 	}
 
-	n, err = d.require(fields, root, "", "bodies", "a list of at least two bodies, each with a name and a shape or a file")
+	j.Forces = DefaultForces
+	if f, ok := fields["forces"]; ok {
+		if j.Forces, err = d.boolean(f.value, "forces"); err != nil {
+			return err
+		}
+	}
+	if f, ok := fields["torque_about"]; ok {
+		c, err := d.vector(f.value, "torque_about")
+		if err != nil {
+			return err
+		}
+		j.TorqueAbout = &c
+	}
+	if f, ok := fields["substrate"]; ok {
+		if j.Substrate, err = d.substrate(f.value); err != nil {
+			return err
+		}
+	}
+
+	n, err = d.require(fields, root, "", "bodies", "a list of at least two bodies (one over a substrate), each with a name and a shape or a file")
 	if err != nil {
 		return err
 	}
@@ -364,11 +396,52 @@ func (d *decoder) job(root *yaml.Node, j *Job) error {
 		return err
 	}
 
-	n, err = d.require(fields, root, "", "sweep", "which body moves (body), along which direction (direction) and to which gaps (gaps) or offsets (offsets)")
+	n, err = d.require(fields, root, "", "sweep", "which body moves (body), along which direction (direction) and to which gaps (gaps) or offsets (offsets), or about which axis by which angles (rotate)")
 	if err != nil {
 		return err
 	}
-	return d.sweep(n, j)
+	if err := d.sweep(n, j); err != nil {
+		return err
+	}
+	if f, ok := fields["torque_about"]; ok && j.Sweep.Rotate != nil {
+		return d.errorf(resolve(f.key), "torque_about", "an angle sweep takes torques about its rotation point (sweep.rotate.point); remove torque_about, or move the rotation point")
+	}
+	if f, ok := fields["spring"]; ok {
+		if j.Spring, err = d.spring(f.value, j); err != nil {
+			return err
+		}
+		if !j.Forces {
+			return d.errorf(resolve(fields["forces"].value), "forces", "the spring's sticking analysis needs the forces: remove forces: false, or remove the spring")
+		}
+	}
+	return nil
+}
+
+func (d *decoder) substrate(n *yaml.Node) (*Substrate, error) {
+	n = resolve(n)
+	const key = "substrate"
+	fields, err := d.mapping(n, key, "point", "normal")
+	if err != nil {
+		return nil, err
+	}
+	s := &Substrate{Line: n.Line}
+	v, err := d.require(fields, n, key, "point", "a point [x, y, z] of the plane")
+	if err != nil {
+		return nil, err
+	}
+	if s.Point, err = d.vector(v, key+".point"); err != nil {
+		return nil, err
+	}
+	v, err = d.require(fields, n, key, "normal", "the plane's normal [x, y, z], pointing to the side of the bodies")
+	if err != nil {
+		return nil, err
+	}
+	normal, err := d.nonZero(v, key+".normal", "the plane's normal, pointing to the side of the bodies")
+	if err != nil {
+		return nil, err
+	}
+	s.Normal = r3.Unit(normal)
+	return s, nil
 }
 
 var bodyKeys = []string{"name", "shape", "file", "mesh_size", "position", "rotation"}
@@ -378,8 +451,11 @@ func (d *decoder) bodies(n *yaml.Node, j *Job) error {
 	if n.Kind != yaml.SequenceNode {
 		return d.errorf(n, "bodies", "want a list of bodies (each entry starting with '- name: ...'), got %s", describe(n))
 	}
-	if len(n.Content) < 2 {
-		return d.errorf(n, "bodies", "a Casimir energy needs at least two bodies, got %d; add the body the moving one interacts with", len(n.Content))
+	switch {
+	case len(n.Content) == 0:
+		return d.errorf(n, "bodies", "the list is empty; give at least one body over a substrate, or two bodies")
+	case len(n.Content) < 2 && j.Substrate == nil:
+		return d.errorf(n, "bodies", "a Casimir energy needs at least two bodies, got %d; add the body the moving one interacts with, or a substrate", len(n.Content))
 	}
 	lines := make(map[string]int)
 	for i, e := range n.Content {
@@ -395,6 +471,34 @@ func (d *decoder) bodies(n *yaml.Node, j *Job) error {
 		j.Bodies = append(j.Bodies, b)
 	}
 	return nil
+}
+
+// grading reads a mesh size range {near, far}.
+func (d *decoder) grading(n *yaml.Node, key string) (*Grading, error) {
+	n = resolve(n)
+	fields, err := d.mapping(n, key, "near", "far")
+	if err != nil {
+		return nil, err
+	}
+	g := &Grading{}
+	v, err := d.require(fields, n, key, "near", "the triangle edge at the closest approach (at most half the smallest gap)")
+	if err != nil {
+		return nil, err
+	}
+	if g.Near, err = d.positive(v, join(key, "near"), "the triangle edge at the closest approach"); err != nil {
+		return nil, err
+	}
+	v, err = d.require(fields, n, key, "far", "the triangle edge far from the other bodies")
+	if err != nil {
+		return nil, err
+	}
+	if g.Far, err = d.positive(v, join(key, "far"), "the triangle edge far from the other bodies"); err != nil {
+		return nil, err
+	}
+	if g.Far < g.Near {
+		return nil, d.errorf(resolve(v), join(key, "far"), "far %g is below near %g: far is the coarse size away from the closest approach, so give far ≥ near", g.Far, g.Near)
+	}
+	return g, nil
 }
 
 func (d *decoder) body(n *yaml.Node, key, dir string) (Body, error) {
@@ -425,9 +529,13 @@ func (d *decoder) body(n *yaml.Node, key, dir string) (Body, error) {
 		}
 		ms, ok := fields["mesh_size"]
 		if !ok {
-			return b, d.errorf(resolve(shape.key), join(key, "mesh_size"), "missing: body %q is a generated shape and needs mesh_size, the target triangle edge length (well below the smallest gap)", b.Name)
+			return b, d.errorf(resolve(shape.key), join(key, "mesh_size"), "missing: body %q is a generated shape and needs mesh_size, the target triangle edge length (well below the smallest gap), or a range {near: ..., far: ...}", b.Name)
 		}
-		if b.MeshSize, err = d.positive(ms.value, join(key, "mesh_size"), "the target triangle edge length"); err != nil {
+		if resolve(ms.value).Kind == yaml.MappingNode {
+			if b.Grading, err = d.grading(ms.value, join(key, "mesh_size")); err != nil {
+				return b, err
+			}
+		} else if b.MeshSize, err = d.positive(ms.value, join(key, "mesh_size"), "the target triangle edge length, or a range {near: ..., far: ...}"); err != nil {
 			return b, err
 		}
 	case hasFile:
@@ -440,7 +548,12 @@ func (d *decoder) body(n *yaml.Node, key, dir string) (Body, error) {
 		}
 		b.File = name
 		if ms, ok := fields["mesh_size"]; ok {
-			return b, d.errorf(resolve(ms.key), join(key, "mesh_size"), "applies to generated shapes only; body %q is read from a file, so remove mesh_size (mesh the file as you need it)", b.Name)
+			if resolve(ms.value).Kind != yaml.MappingNode {
+				return b, d.errorf(resolve(ms.key), join(key, "mesh_size"), "a single size applies to generated shapes only; body %q is read from a file, which is used as is: remove mesh_size, or give a range {near: ..., far: ...} to refine the file near the closest approach", b.Name)
+			}
+			if b.Grading, err = d.grading(ms.value, join(key, "mesh_size")); err != nil {
+				return b, err
+			}
 		}
 	}
 
@@ -551,7 +664,7 @@ func (d *decoder) rotation(n *yaml.Node, key string) (*Rotation, error) {
 func (d *decoder) sweep(n *yaml.Node, j *Job) error {
 	n = resolve(n)
 	const key = "sweep"
-	fields, err := d.mapping(n, key, "body", "direction", "gaps", "offsets")
+	fields, err := d.mapping(n, key, "body", "direction", "gaps", "offsets", "rotate")
 	if err != nil {
 		return err
 	}
@@ -575,24 +688,34 @@ func (d *decoder) sweep(n *yaml.Node, j *Job) error {
 		return d.errorf(resolve(v), key+".body", "no body is named %q; the bodies are %s", name, strings.Join(names, ", "))
 	}
 
-	v, err = d.require(fields, n, key, "direction", "the direction [x, y, z] in which the body moves")
-	if err != nil {
-		return err
+	// Exactly one of gaps, offsets and rotate.
+	var given []string
+	for _, k := range []string{"gaps", "offsets", "rotate"} {
+		if _, ok := fields[k]; ok {
+			given = append(given, k)
+		}
 	}
-	dir, err := d.nonZero(v, key+".direction", "the direction in which the body moves")
-	if err != nil {
-		return err
+	switch len(given) {
+	case 0:
+		return d.errorf(n, key, "has neither gaps nor offsets nor rotate: give the closest surface-to-surface distances (gaps: [0.5, 1, 2]), displacements along the direction (offsets: [...]) or a turn (rotate: {axis: [0, 1, 0], point: [0, 0, 0], degrees: [0, 1, 2]})")
+	case 2, 3:
+		first, second := fields[given[0]], fields[given[1]]
+		return d.errorf(resolve(second.key), key, "has both %s (line %d) and %s: give exactly one of gaps, offsets and rotate", given[0], first.key.Line, given[1])
 	}
-	j.Sweep.Direction = r3.Unit(dir)
 
-	gaps, hasGaps := fields["gaps"]
-	offsets, hasOffsets := fields["offsets"]
-	switch {
-	case hasGaps && hasOffsets:
-		return d.errorf(resolve(offsets.key), key, "has both gaps (line %d) and offsets: give exactly one", gaps.key.Line)
-	case !hasGaps && !hasOffsets:
-		return d.errorf(n, key, "has neither gaps nor offsets: give the closest surface-to-surface distances (gaps: [0.5, 1, 2]) or displacements along the direction (offsets: [...])")
-	case hasGaps:
+	if f, ok := fields["direction"]; ok {
+		dir, err := d.nonZero(f.value, key+".direction", "the direction in which the body approaches the others")
+		if err != nil {
+			return err
+		}
+		j.Sweep.Direction = r3.Unit(dir)
+	} else if given[0] != "rotate" {
+		return d.errorf(n, key+".direction", "missing: sweep needs direction: the direction [x, y, z] in which the body moves")
+	}
+
+	switch given[0] {
+	case "gaps":
+		gaps := fields["gaps"]
 		xs, lines, err := d.list(gaps.value, key+".gaps", "gaps")
 		if err != nil {
 			return err
@@ -604,12 +727,139 @@ func (d *decoder) sweep(n *yaml.Node, j *Job) error {
 			}
 		}
 		j.Sweep.Gaps, j.Sweep.Lines = xs, lines
-	default:
-		xs, lines, err := d.list(offsets.value, key+".offsets", "offsets")
+	case "offsets":
+		xs, lines, err := d.list(fields["offsets"].value, key+".offsets", "offsets")
 		if err != nil {
 			return err
 		}
 		j.Sweep.Offsets, j.Sweep.Lines = xs, lines
+	default:
+		if j.Sweep.Rotate, j.Sweep.Lines, err = d.turning(fields["rotate"].value, key+".rotate"); err != nil {
+			return err
+		}
 	}
 	return nil
+}
+
+// turning reads the rotate entry of an angle sweep.
+func (d *decoder) turning(n *yaml.Node, key string) (*Turning, []int, error) {
+	n = resolve(n)
+	fields, err := d.mapping(n, key, "axis", "point", "degrees")
+	if err != nil {
+		return nil, nil, err
+	}
+	t := &Turning{}
+	v, err := d.require(fields, n, key, "axis", "the axis [x, y, z] to turn about (right-hand rule)")
+	if err != nil {
+		return nil, nil, err
+	}
+	axis, err := d.nonZero(v, join(key, "axis"), "the direction of the axis to turn about")
+	if err != nil {
+		return nil, nil, err
+	}
+	t.Axis = r3.Unit(axis)
+	if f, ok := fields["point"]; ok {
+		p, err := d.vector(f.value, join(key, "point"))
+		if err != nil {
+			return nil, nil, err
+		}
+		t.Point = &p
+	}
+	v, err = d.require(fields, n, key, "degrees", "the list of angles in degrees, growing towards contact (e.g. degrees: [0, 1, 2])")
+	if err != nil {
+		return nil, nil, err
+	}
+	xs, lines, err := d.list(v, join(key, "degrees"), "angles in degrees")
+	if err != nil {
+		return nil, nil, err
+	}
+	for i, a := range xs {
+		if math.Abs(a) >= 180 {
+			return nil, nil, &Error{File: d.file, Line: lines[i], Key: fmt.Sprintf("%s.degrees[%d]", key, i),
+				Problem: fmt.Sprintf("angle %g: give angles between -180 and 180 degrees", a)}
+		}
+	}
+	t.Degrees = xs
+	return t, lines, nil
+}
+
+// springUnits maps the accepted spellings of stiffness units.
+var springUnits = map[string]SpringUnit{
+	"N/m":     NewtonsPerMetre,
+	"N m/rad": NewtonMetresPerRadian, "N*m/rad": NewtonMetresPerRadian, "N·m/rad": NewtonMetresPerRadian, "Nm/rad": NewtonMetresPerRadian,
+}
+
+// spring reads the suspension of the moving body and checks it against the
+// sweep, which must already be decoded.
+func (d *decoder) spring(n *yaml.Node, j *Job) (*Spring, error) {
+	n = resolve(n)
+	const key = "spring"
+	fields, err := d.mapping(n, key, "stiffness", "unit", "rest_gap", "rest_angle")
+	if err != nil {
+		return nil, err
+	}
+	sp := &Spring{Line: n.Line}
+	angles := j.Sweep.Kind() == ByAngles
+	v, err := d.require(fields, n, key, "unit", "the unit of the stiffness: N/m for a gap or offset sweep, N m/rad for an angle sweep")
+	if err != nil {
+		return nil, err
+	}
+	u, err := d.text(v, key+".unit", "N/m or N m/rad")
+	if err != nil {
+		return nil, err
+	}
+	unit, ok := springUnits[strings.Join(strings.Fields(u), " ")]
+	if !ok {
+		return nil, d.errorf(resolve(v), key+".unit", "unknown stiffness unit %q: say N/m (a linear spring, for gap and offset sweeps) or N m/rad (a torsional spring, for angle sweeps)", u)
+	}
+	sp.Unit, sp.Torsional = unit, unit == NewtonMetresPerRadian
+	switch {
+	case sp.Torsional && !angles:
+		return nil, d.errorf(resolve(v), key+".unit", "a torsional spring (N m/rad) needs an angle sweep (sweep.rotate), but this sweep moves the body by %s: give the linear stiffness in N/m", j.Sweep.Kind())
+	case !sp.Torsional && angles:
+		return nil, d.errorf(resolve(v), key+".unit", "a linear spring (N/m) does not fit an angle sweep: give the torsional stiffness in N m/rad")
+	}
+	v, err = d.require(fields, n, key, "stiffness", "the spring constant in "+string(unit))
+	if err != nil {
+		return nil, err
+	}
+	if sp.Stiffness, err = d.positive(v, key+".stiffness", "the spring constant in "+string(unit)); err != nil {
+		return nil, err
+	}
+
+	restKey, otherKey, what := "rest_gap", "rest_angle", "the gap (in "+j.Unit.Name()+") at which the spring is relaxed"
+	if sp.Torsional {
+		restKey, otherKey, what = "rest_angle", "rest_gap", "the sweep angle (in degrees) at which the spring is relaxed"
+	}
+	if f, ok := fields[otherKey]; ok {
+		return nil, d.errorf(resolve(f.key), key+"."+otherKey, "does not fit this spring: a %s spring needs %s, %s", map[bool]string{true: "torsional", false: "linear"}[sp.Torsional], restKey, what)
+	}
+	f, ok := fields[restKey]
+	if !ok {
+		return nil, d.errorf(n, key+"."+restKey, "missing: the spring has no rest position; give %s, %s", restKey, what)
+	}
+	if sp.Rest, err = d.number(f.value, key+"."+restKey); err != nil {
+		return nil, err
+	}
+	sp.RestLine = resolve(f.value).Line
+	switch j.Sweep.Kind() {
+	case ByGaps:
+		if !(sp.Rest > 0) {
+			return nil, d.errorf(resolve(f.value), key+"."+restKey, "rest gap %g: must be greater than zero; give %s", sp.Rest, what)
+		}
+		fallthrough
+	case ByAngles:
+		lo, hi := j.Sweep.Range()
+		if sp.Rest < lo || sp.Rest > hi {
+			unit := " " + j.Unit.Name()
+			if sp.Torsional {
+				unit = " degrees"
+			}
+			return nil, d.errorf(resolve(f.value), key+"."+restKey, "%s %g%s lies outside the sweep's range %g to %g%s: the analysis needs the load at the rest position, so extend the sweep to include it",
+				strings.ReplaceAll(restKey, "_", " "), sp.Rest, unit, lo, hi, unit)
+		}
+	}
+	// Offset sweeps learn their gaps only when the scene is built; Build
+	// checks the rest gap against them.
+	return sp, nil
 }

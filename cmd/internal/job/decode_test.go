@@ -157,7 +157,7 @@ func TestDecodeErrors(t *testing.T) {
 		{"shape and file", "    mesh_size: 0.2\n", "    mesh_size: 0.2\n    file: x.stl\n", 8, []string{`body "ball" has both shape (line 6) and file`}},
 		{"neither shape nor file", "    file: pad.stl\n", "", 9, []string{`body "pad" has neither shape nor file`}},
 		{"missing mesh size", "    mesh_size: 0.2\n", "", 6, []string{"bodies[0].mesh_size: missing", "target triangle edge"}},
-		{"mesh size on a file", "    file: pad.stl\n", "    file: pad.stl\n    mesh_size: 1\n", 11, []string{"mesh_size: applies to generated shapes only"}},
+		{"mesh size on a file", "    file: pad.stl\n", "    file: pad.stl\n    mesh_size: 1\n", 11, []string{"a single size applies to generated shapes only", "used as is", "{near: ..., far: ...}"}},
 		{"zero mesh size", "mesh_size: 0.2", "mesh_size: 0", 7, []string{"mesh_size: must be greater than zero, got 0"}},
 		{"negative radius", "{radius: 1}", "{radius: -1}", 6, []string{"bodies[0].shape.sphere.radius: must be greater than zero, got -1"}},
 		{"missing radius", "{radius: 1}", "{}", 6, []string{"bodies[0].shape.sphere.radius: missing"}},
@@ -277,6 +277,8 @@ func FuzzDecodeJob(f *testing.F) {
 	if data, err := os.ReadFile(filepath.Join("..", "..", "fluctus", "demo.yaml")); err == nil {
 		f.Add(data)
 	}
+	f.Add([]byte(overSubstrate))
+	f.Add([]byte(tilted))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		j, err := Decode("fuzz.yaml", data)
 		if err != nil {
@@ -292,8 +294,11 @@ func FuzzDecodeJob(f *testing.F) {
 		if !(j.Unit > 0) || j.Temperature < 0 || !(j.Accuracy > 0 && j.Accuracy < 1) {
 			t.Fatalf("accepted unit %v temperature %v accuracy %v", j.Unit, j.Temperature, j.Accuracy)
 		}
-		if len(j.Bodies) < 2 {
-			t.Fatalf("accepted %d bodies", len(j.Bodies))
+		if len(j.Bodies) < 2 && (j.Substrate == nil || len(j.Bodies) < 1) {
+			t.Fatalf("accepted %d bodies (substrate %v)", len(j.Bodies), j.Substrate)
+		}
+		if sub := j.Substrate; sub != nil && math.Abs(r3.Norm(sub.Normal)-1) > 1e-12 {
+			t.Fatalf("substrate normal %v", sub.Normal)
 		}
 		names := map[string]bool{}
 		for _, b := range j.Bodies {
@@ -304,20 +309,37 @@ func FuzzDecodeJob(f *testing.F) {
 			if (b.Shape == nil) == (b.File == "") {
 				t.Fatalf("body %q: shape %v file %q", b.Name, b.Shape, b.File)
 			}
-			if b.Shape != nil && !(b.MeshSize > 0) {
+			if b.Shape != nil && !(b.MeshSize > 0) && b.Grading == nil {
 				t.Fatalf("body %q: mesh size %v", b.Name, b.MeshSize)
+			}
+			if g := b.Grading; g != nil && !(g.Near > 0 && g.Far >= g.Near) {
+				t.Fatalf("body %q: grading %+v", b.Name, *g)
 			}
 		}
 		sw := j.Sweep
 		if sw.Body < 0 || sw.Body >= len(j.Bodies) {
 			t.Fatalf("sweep body %d of %d", sw.Body, len(j.Bodies))
 		}
-		// A normalised direction has length 1 to rounding (a few ulps).
-		if l := r3.Norm(sw.Direction); math.Abs(l-1) > 1e-12 {
+		// A normalised direction has length 1 to rounding (a few ulps); an
+		// angle sweep may leave it zero.
+		if l := r3.Norm(sw.Direction); math.Abs(l-1) > 1e-12 && !(sw.Rotate != nil && l == 0) {
 			t.Fatalf("direction %v has length %v", sw.Direction, l)
 		}
-		if (len(sw.Gaps) == 0) == (len(sw.Offsets) == 0) || len(sw.Lines) != sw.Len() {
+		kinds := 0
+		for _, given := range []bool{len(sw.Gaps) > 0, len(sw.Offsets) > 0, sw.Rotate != nil} {
+			if given {
+				kinds++
+			}
+		}
+		if kinds != 1 || sw.Len() == 0 || len(sw.Lines) != sw.Len() {
 			t.Fatalf("sweep %+v", sw)
+		}
+		if sp := j.Spring; sp != nil {
+			lo, hi := sw.Range()
+			if !(sp.Stiffness > 0) || sp.Torsional != (sw.Rotate != nil) || !j.Forces ||
+				(sw.Kind() != ByOffsets && (sp.Rest < lo || sp.Rest > hi)) {
+				t.Fatalf("accepted spring %+v for sweep %+v", *sp, sw)
+			}
 		}
 		for _, g := range sw.Gaps {
 			if !(g > 0) {
