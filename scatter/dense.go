@@ -52,22 +52,43 @@ func addLowerProduct(c blas64.General, a blas64.General) {
 }
 
 // solveLowerTransInPlace overwrites the n×m matrix b with L^-T b for the n×n
-// lower triangular l (back substitution by blocks):
-//
-//	[L11ᵀ L21ᵀ; 0 L22ᵀ] [X1; X2] = [B1; B2]:  X2 = L22^-T B2, X1 = L11^-T (B1 - L21ᵀ X2).
+// lower triangular l. It solves with the upper triangular U = Lᵀ (copied
+// once), which keeps every update a NoTrans Gemm — gonum's transposed Gemm
+// kernel is several times slower.
 func solveLowerTransInPlace(l blas64.Triangular, b blas64.General) {
+	solveUpperInPlace(upperOf(l), b)
+}
+
+// upperOf returns Lᵀ as an upper triangular matrix in its own storage.
+func upperOf(l blas64.Triangular) blas64.Triangular {
 	n := l.N
+	u := blas64.Triangular{Uplo: blas.Upper, Diag: l.Diag, N: n, Stride: n, Data: make([]float64, n*n)}
+	for i := 0; i < n; i++ {
+		row := l.Data[i*l.Stride : i*l.Stride+i+1]
+		for j, v := range row {
+			u.Data[j*n+i] = v
+		}
+	}
+	return u
+}
+
+// solveUpperInPlace overwrites the n×m matrix b with U^-1 b for the n×n upper
+// triangular u (back substitution by blocks):
+//
+//	[U11 U12; 0 U22] [X1; X2] = [B1; B2]:  X2 = U22^-1 B2, X1 = U11^-1 (B1 - U12 X2).
+func solveUpperInPlace(u blas64.Triangular, b blas64.General) {
+	n := u.N
 	if n <= leafSize {
-		blas64.Trsm(blas.Left, blas.Trans, 1, l, b)
+		blas64.Trsm(blas.Left, blas.NoTrans, 1, u, b)
 		return
 	}
 	h := n / 2
-	l11 := blas64.Triangular{Uplo: blas.Lower, Diag: l.Diag, N: h, Stride: l.Stride, Data: l.Data}
-	l22 := blas64.Triangular{Uplo: blas.Lower, Diag: l.Diag, N: n - h, Stride: l.Stride, Data: l.Data[h*l.Stride+h:]}
-	l21 := blas64.General{Rows: n - h, Cols: h, Stride: l.Stride, Data: l.Data[h*l.Stride:]}
+	u11 := blas64.Triangular{Uplo: blas.Upper, Diag: u.Diag, N: h, Stride: u.Stride, Data: u.Data}
+	u22 := blas64.Triangular{Uplo: blas.Upper, Diag: u.Diag, N: n - h, Stride: u.Stride, Data: u.Data[h*u.Stride+h:]}
+	u12 := blas64.General{Rows: h, Cols: n - h, Stride: u.Stride, Data: u.Data[h:]}
 	b1 := blas64.General{Rows: h, Cols: b.Cols, Stride: b.Stride, Data: b.Data}
 	b2 := blas64.General{Rows: n - h, Cols: b.Cols, Stride: b.Stride, Data: b.Data[h*b.Stride:]}
-	solveLowerTransInPlace(l22, b2)
-	blas64.Gemm(blas.Trans, blas.NoTrans, -1, l21, b2, 1, b1)
-	solveLowerTransInPlace(l11, b1)
+	solveUpperInPlace(u22, b2)
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, -1, u12, b2, 1, b1)
+	solveUpperInPlace(u11, b1)
 }

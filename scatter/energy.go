@@ -16,7 +16,9 @@ const (
 	// it is below exp(-2 kappaCutoff) of its value at small κ (DESIGN §4).
 	kappaCutoff = 30
 	// firstRule and lastRule are the smallest and largest Fejér rule sizes.
-	firstRule = 8
+	// The first error estimate compares the 15-, 7- and 3-node rules: with
+	// fewer nodes two rules can agree by chance.
+	firstRule = 16
 	lastRule  = 128
 	// zeroKappa sets the small wavenumbers, in units of 1/(scene size), from
 	// which the κ → 0 limit is extrapolated for the n = 0 Matsubara term.
@@ -588,12 +590,13 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 // convergedError estimates the error of the finest of three nested rules
 // from the differences of successive rules, d = |Q_n - Q_n/2| and
 // dPrev = |Q_n/2 - Q_n/4|. The integrand is analytic in t, so the rules
-// converge geometrically and the error of Q_n is about d·(d/dPrev); where the
-// differences do not fall, the estimate is d itself. Both are conservative
-// for a geometric sequence (TestFrequencyIntegration).
+// converge geometrically and the error of Q_n is about d·(d/dPrev); the
+// ratio is not trusted below 1/10 (two coarse rules may agree by chance),
+// and where the differences do not fall the estimate is d itself
+// (TestFrequencyIntegration).
 func convergedError(d, dPrev float64) float64 {
 	if d < dPrev {
-		return d * d / dPrev
+		return d * math.Max(d/dPrev, 0.1)
 	}
 	return d
 }

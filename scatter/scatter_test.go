@@ -212,7 +212,7 @@ func TestMatsubara(t *testing.T) {
 	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}}
 	direct := integrandAt(t, bodies, 1e-4)
 	sys, _ := newSystem(bodies, 1, 0, nil)
-	run := &runner{sys: sys, set: Settings{Accuracy: 1e-4, ThermalWavenumber: 1}.withDefaults(), sweep: sw, pts: []Point{{Gap: 1}}, delta: []float64{0}}
+	run := &runner{sys: sys, set: Settings{Accuracy: 1e-4, ThermalWavenumber: 1}.withDefaults(), sweep: sw, pts: []Point{{Gap: 1}}, scale: []float64{1}, delta: []float64{0}}
 	if err := run.matsubara(context.Background(), sceneSize(bodies, sw)); err != nil {
 		t.Fatal(err)
 	}
