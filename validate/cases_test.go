@@ -23,3 +23,21 @@ func TestCases(t *testing.T) {
 		})
 	}
 }
+
+// TestQuickCasesAreTested: the short verification table is a subset of the
+// cases TestCases runs in the default suite.
+func TestQuickCasesAreTested(t *testing.T) {
+	names := map[string]bool{}
+	for _, c := range Cases(false) {
+		names[c.Name] = true
+	}
+	q := QuickCases()
+	if len(q) == 0 {
+		t.Fatal("no quick cases")
+	}
+	for _, c := range q {
+		if !names[c.Name] {
+			t.Errorf("quick case %q is not run by the default tests", c.Name)
+		}
+	}
+}
