@@ -2,6 +2,7 @@ package scatter
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"testing"
 
@@ -36,37 +37,7 @@ func TestPlaneGradientFiniteDifference(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sf, err := sys.factorSelf(context.Background(), 0.9)
-		if err != nil {
-			t.Fatal(err)
-		}
-		ev, err := sys.evaluate(context.Background(), sf, placement{centre: centre}, true)
-		if err != nil {
-			t.Fatal(err)
-		}
-		at := func(pl placement) float64 {
-			e, err := sys.evaluate(context.Background(), sf, pl, false)
-			if err != nil {
-				t.Fatal(err)
-			}
-			return e.logDet
-		}
-		const h = 1e-4
-		var fd [6]float64
-		for i, ax := range []r3.Vec{{X: 1}, {Y: 1}, {Z: 1}} {
-			fd[i] = (at(placement{offset: r3.Scale(h, ax)}) - at(placement{offset: r3.Scale(-h, ax)})) / (2 * h)
-			fd[3+i] = (at(placement{turn: Turn{Axis: ax, Angle: h, Pivot: centre}}) -
-				at(placement{turn: Turn{Axis: ax, Angle: -h, Pivot: centre}})) / (2 * h)
-		}
-		scale := 0.0
-		for _, v := range fd {
-			scale = math.Max(scale, math.Abs(v))
-		}
-		for i := range fd {
-			if math.Abs(ev.grad[i]-fd[i]) > 1e-4*scale {
-				t.Errorf("scene %d component %d: analytic %.8g, finite difference %.8g", si, i, ev.grad[i], fd[i])
-			}
-		}
+		checkGradient(t, sys, 0.9, centre, fmt.Sprintf("scene %d", si))
 	}
 }
 

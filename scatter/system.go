@@ -302,26 +302,13 @@ func (sys *system) evaluateMany(ctx context.Context, sf *selfFactors, surf []*be
 		return ev, nil
 	}
 	m := sys.moving
-	nm := surf[m].Len()
-	ln := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
-	x := blas64.General{Rows: n, Cols: nm, Stride: nm, Data: make([]float64, n*nm)}
-	for r := 0; r < nm; r++ {
-		x.Data[(start[m]+r)*nm+r] = 1
-	}
-	solveLowerInPlace(ln, x)
-	solveLowerTransInPlace(ln, x) // block column m of N^-1
+	w := sys.inverseColumn(sf, delta, start, m)
 	var total bem.Motion
 	for i := range surf {
 		if i == m {
 			continue
 		}
-		ni := surf[i].Len()
-		blk := blas64.General{Rows: ni, Cols: nm, Stride: nm, Data: append([]float64(nil), x.Data[start[i]*nm:(start[i]+ni)*nm]...)}
-		bt := transpose(blk)                  // nm × ni
-		solveLowerTransInPlace(sf.f[m].l, bt) // L_m^-T X_imᵀ = (X_im L_m^-1)ᵀ
-		h := transpose(bt)
-		solveLowerTransInPlace(sf.f[i].l, h) // (M^-1)_im
-		mot, err := sys.asm.CrossGradient(ctx, mat.NewDense(ni, nm, h.Data), sf.op, surf[i], surf[m], pl.centre)
+		mot, err := sys.asm.CrossGradient(ctx, w[i], sf.op, surf[i], surf[m], pl.centre)
 		if err != nil {
 			return evaluation{}, err
 		}
@@ -385,14 +372,7 @@ func (sys *system) evaluatePlane(ctx context.Context, sf *selfFactors, surf []*b
 		return ev, nil
 	}
 	m := sys.moving
-	nm := surf[m].Len()
-	ln := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
-	x := blas64.General{Rows: n, Cols: nm, Stride: nm, Data: make([]float64, n*nm)}
-	for r := 0; r < nm; r++ {
-		x.Data[(start[m]+r)*nm+r] = 1
-	}
-	solveLowerInPlace(ln, x)
-	solveLowerTransInPlace(ln, x) // block column m of (I - Δ)^-1
+	wim := sys.inverseColumn(sf, delta, start, m)
 	nn := r3.Unit(p.Normal)
 	mirror := func(v r3.Vec) r3.Vec { return r3.Sub(v, r3.Scale(2*r3.Dot(v, nn), nn)) }
 	pc := r3.Sub(pl.centre, r3.Scale(2*r3.Dot(r3.Sub(pl.centre, p.Point), nn), nn))
@@ -410,13 +390,7 @@ func (sys *system) evaluatePlane(ctx context.Context, sf *selfFactors, surf []*b
 		total.Rotation = r3.Add(total.Rotation, r3.Scale(f, r))
 	}
 	for i := range surf {
-		ni := surf[i].Len()
-		blk := blas64.General{Rows: ni, Cols: nm, Stride: nm, Data: append([]float64(nil), x.Data[start[i]*nm:(start[i]+ni)*nm]...)}
-		bt := transpose(blk)
-		solveLowerTransInPlace(sf.f[m].l, bt)
-		h := transpose(bt)
-		solveLowerTransInPlace(sf.f[i].l, h) // W_im = (M_plane^-1)_im
-		w := mat.NewDense(ni, nm, h.Data)
+		w := wim[i] // (M_plane^-1)_im
 		// -M(i, img m): its image moves.
 		mi, err := sys.asm.CrossGradient(ctx, w, sf.op, surf[i], imgs[m], pl.centre)
 		if err != nil {
@@ -439,6 +413,34 @@ func (sys *system) evaluatePlane(ctx context.Context, sf *selfFactors, surf []*b
 	}
 	ev.setGrad(total, 1)
 	return ev, nil
+}
+
+// inverseColumn returns the blocks (M^-1)_im = L_i^-T (N^-1)_im L_m^-1 of
+// the moving body's column m, for every body i, where the lower triangle of
+// delta (n×n, row major) holds the Cholesky factor of the whitened matrix N
+// and start the first unknown of each body. The block column of N^-1 takes
+// two triangular solves with that factor.
+func (sys *system) inverseColumn(sf *selfFactors, delta []float64, start []int, m int) []*mat.Dense {
+	n := start[len(start)-1]
+	nm := start[m+1] - start[m]
+	ln := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: delta}
+	x := blas64.General{Rows: n, Cols: nm, Stride: nm, Data: make([]float64, n*nm)}
+	for r := 0; r < nm; r++ {
+		x.Data[(start[m]+r)*nm+r] = 1
+	}
+	solveLowerInPlace(ln, x)
+	solveLowerTransInPlace(ln, x) // block column m of N^-1
+	out := make([]*mat.Dense, len(start)-1)
+	for i := range out {
+		ni := start[i+1] - start[i]
+		blk := blas64.General{Rows: ni, Cols: nm, Stride: nm, Data: x.Data[start[i]*nm : (start[i]+ni)*nm]}
+		bt := transpose(blk)                  // nm × ni
+		solveLowerTransInPlace(sf.f[m].l, bt) // L_m^-T X_imᵀ = (X_im L_m^-1)ᵀ
+		h := transpose(bt)
+		solveLowerTransInPlace(sf.f[i].l, h) // L_i^-T X_im L_m^-1
+		out[i] = mat.NewDense(ni, nm, h.Data)
+	}
+	return out
 }
 
 func (sys *system) checkPositive(kappa float64, err error) error {

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"runtime"
-	"text/tabwriter"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -38,8 +37,14 @@ subset of them), so the table and the tests cannot drift apart. Values are in un
 				cases = validate.Cases(true)
 			}
 			fmt.Fprintf(a.stdout, "fluctus %s verification: %d cases\n\n", version, len(cases))
-			tw := tabwriter.NewWriter(a.stdout, 2, 4, 2, ' ', 0)
-			fmt.Fprintln(tw, "case\treference\tfluctus\tdifference\ttolerance\tresult\ttime")
+			width := len("case")
+			for _, c := range cases {
+				width = max(width, len([]rune(c.Name)))
+			}
+			row := func(name, ref, got, diff, tol, res, dt string) {
+				fmt.Fprintf(a.stdout, "%-*s  %13s  %13s  %10s  %9s  %-6s %s\n", width, name, ref, got, diff, tol, res, dt)
+			}
+			row("case", "reference", "fluctus", "difference", "tolerance", "result", "time")
 			failed := 0
 			start := time.Now()
 			validate.Run(cmd.Context(), cases, threads, func(r validate.Result) {
@@ -49,11 +54,11 @@ subset of them), so the table and the tests cannot drift apart. Values are in un
 					failed++
 				}
 				if r.Err != nil {
-					fmt.Fprintf(tw, "%s\t-\t-\t-\t%.2g\tFAIL: %v\t\n", r.Name, r.Tolerance, r.Err)
+					row(r.Name, "-", "-", "-", fmt.Sprintf("%.2g", r.Tolerance), "FAIL", r.Err.Error())
 				} else {
-					fmt.Fprintf(tw, "%s\t%.6g\t%.6g\t%.2e\t%.2g\t%s\t%s\n", r.Name, r.Want, r.Got, r.Difference(), r.Tolerance, status, r.Elapsed.Round(time.Second))
+					row(r.Name, fmt.Sprintf("%.6g", r.Want), fmt.Sprintf("%.6g", r.Got), fmt.Sprintf("%.2e", r.Difference()),
+						fmt.Sprintf("%.2g", r.Tolerance), status, r.Elapsed.Round(time.Second).String())
 				}
-				tw.Flush()
 			})
 			fmt.Fprintln(a.stdout, "\nReferences:")
 			seen := map[string]bool{}
