@@ -74,12 +74,11 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 		}
 	}
 	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, scale: scale, delta: make([]float64, len(pts))}
-	for i, p := range pts {
+	for i := range pts {
 		run.delta[i] = stiffnessStep * scale[i]
 		if len(sweep.Turns) != 0 {
 			run.delta[i] = stiffnessStep * angularStep(bodies[sweep.Body].Mesh, sweep.Turns[i], scale[i])
 		}
-		_ = p
 	}
 	if set.ThermalWavenumber > 0 {
 		err = run.matsubara(ctx, sceneSize(bodies, sweep))
@@ -423,9 +422,8 @@ func (r *runner) integrate(ctx context.Context) error {
 	}
 	w := r.width()
 	st := make([]*state, len(r.pts))
-	for i, p := range r.pts {
+	for i := range r.pts {
 		d := r.scale[i]
-		_ = p
 		st[i] = &state{kc: dyadic(2 / d), cut: kappaCutoff / d, n: firstRule, f: make([][]float64, firstRule-1)}
 	}
 	for {
