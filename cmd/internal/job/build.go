@@ -272,6 +272,26 @@ func (s *Scene) offsetsForGaps(gaps []float64, lines []int) ([]r3.Vec, error) {
 }
 
 // lowest returns the smallest height of a vertex of m above the substrate.
+// neighbours returns the surfaces around body i — the other bodies' trees
+// and the substrate patch, if any — and the smallest gap from body i to
+// them, with the bodies placed as in placed.
+func (s *Scene) neighbours(i int, trees []*mesh.Tree, plane *mesh.Tree, placed []*mesh.Mesh) ([]*mesh.Tree, float64) {
+	var others []*mesh.Tree
+	d := math.Inf(1)
+	for k, t := range trees {
+		if k != i {
+			others = append(others, t)
+			g, _, _ := trees[i].Gap(t)
+			d = math.Min(d, g)
+		}
+	}
+	if plane != nil {
+		others = append(others, plane)
+		d = math.Min(d, s.lowest(placed[i]))
+	}
+	return others, d
+}
+
 func (s *Scene) lowest(m *mesh.Mesh) float64 {
 	h := math.Inf(1)
 	for _, t := range m.Triangles {
@@ -418,19 +438,7 @@ func (s *Scene) grade() error {
 		if b.Grading == nil {
 			continue
 		}
-		var others []*mesh.Tree
-		dmin := math.Inf(1)
-		for k, t := range trees {
-			if k != i {
-				others = append(others, t)
-				d, _, _ := trees[i].Gap(t)
-				dmin = math.Min(dmin, d)
-			}
-		}
-		if plane != nil {
-			others = append(others, plane)
-			dmin = math.Min(dmin, s.lowest(placed[i]))
-		}
+		others, dmin := s.neighbours(i, trees, plane, placed)
 		if !(dmin > 0) {
 			return j.bodyError(b, fmt.Errorf("it touches or overlaps another body or the substrate at sweep point %d (%s), so its mesh cannot be graded: choose larger gaps", p+1, s.pointLabel(p)))
 		}
@@ -735,19 +743,7 @@ func (s *Scene) warnings(sw scatter.Sweep, gaps []float64, label func(p int) str
 	var out []string
 	u := s.Job.Unit.Name()
 	for i, b := range s.Bodies {
-		var others []*mesh.Tree
-		d := math.Inf(1)
-		for k, t := range trees {
-			if k != i {
-				others = append(others, t)
-				g, _, _ := trees[i].Gap(t)
-				d = math.Min(d, g)
-			}
-		}
-		if plane != nil {
-			others = append(others, plane)
-			d = math.Min(d, s.lowest(placed[i]))
-		}
+		others, d := s.neighbours(i, trees, plane, placed)
 		if summary := mesh.CoarseSummary(mesh.CoarseNear(placed[i], others, d), d); summary != "" {
 			out = append(out, fmt.Sprintf("body %q at %s: %s (lengths in %s; expect a larger error there)", b.Name, label(p), summary, u))
 		}
