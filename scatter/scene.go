@@ -4,13 +4,16 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/fluctus/fluctus/mesh"
+	"github.com/fluctus/fluctus/scatter/material"
 )
 
-// Body is a perfectly conducting object placed in the scene. Its mesh is in
-// scene coordinates (L0), closed and outward oriented.
+// Body is an object placed in the scene. Its mesh is in scene coordinates
+// (L0), closed and outward oriented. Material is its permittivity model at
+// imaginary frequency; nil (or material.Perfect) is a perfect conductor.
 type Body struct {
-	Name string
-	Mesh *mesh.Mesh
+	Name     string
+	Mesh     *mesh.Mesh
+	Material material.Model
 }
 
 // Sweep moves one body rigidly through a list of placements; every other
