@@ -93,12 +93,18 @@ func (as Assembler) Cross(ctx context.Context, dst *mat.Dense, op Operator, a, b
 	}
 	return as.byColor(ctx, a, func(s int) {
 		var blk [3][3]float64
+		var rows [3][]float64
+		for k := range rows {
+			e := a.edge[s][k]
+			rows[k] = data[e*stride : e*stride+c]
+		}
 		for t := range b.Panels {
 			op.Pair(&blk, a, s, b, t, false)
-			for k := 0; k < 3; k++ {
-				row := data[a.edge[s][k]*stride:]
-				for l := 0; l < 3; l++ {
-					row[b.edge[t][l]] += blk[k][l]
+			cols := &b.edge[t]
+			for k := range rows {
+				row := rows[k]
+				for l, j := range cols {
+					row[j] += blk[k][l]
 				}
 			}
 		}

@@ -17,6 +17,12 @@
 //   - Assembler: the backend that loops over triangle pairs in parallel and
 //     writes dense self and interaction blocks.
 //
+// For homogeneous dielectric or metallic bodies (DESIGN §13) the KFIE
+// operator K_ab = ∫∫ f_a(x)·(∇_x G(x-y) × f_b(y)) dx dy joins the EFIE in the
+// PMCHWT blocks of DielectricSelf and DielectricCross (unknowns: electric and
+// magnetic surface currents J, M in RWG functions); CrossGradientK is its
+// rigid-motion derivative.
+//
 // Units: lengths are in the scene unit L0 and κ in 1/L0. M carries units of
 // L0 (the impedance prefactor of the integral equation is dropped: it cancels
 // in every determinant ratio the energy needs).

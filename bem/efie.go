@@ -1,10 +1,6 @@
 package bem
 
-import (
-	"fmt"
-
-	"gonum.org/v1/gonum/spatial/r3"
-)
+import "fmt"
 
 // Operator turns the integrals of one triangle pair into its contributions to
 // the RWG matrix entries.
@@ -38,18 +34,9 @@ func NewEFIE(kappa float64) (*EFIE, error) {
 // Pair implements Operator. With f = c (x - p) on a panel, (x-p)·(y-p') is
 // expanded about the centroids and ∇·f = 2c.
 func (op *EFIE) Pair(dst *[3][3]float64, a *Surface, s int, b *Surface, t int, same bool) {
-	m := op.Quad.Moments(op.Kernel, a, s, b, t, same)
-	ps, pt := &a.Panels[s], &b.Panels[t]
-	div := 4 / op.Kappa * m.I0
-	for k := 0; k < 3; k++ {
-		pk := r3.Sub(ps.V[k], ps.Centroid)
-		ck := a.coef[s][k]
-		iyk := m.Ixy - r3.Dot(pk, m.Iy)
-		ixk := r3.Scale(-1, r3.Sub(m.Ix, r3.Scale(m.I0, pk))) // -(Ix - I0 pk)
-		for l := 0; l < 3; l++ {
-			pl := r3.Sub(pt.V[l], pt.Centroid)
-			dot := iyk + r3.Dot(pl, ixk)
-			dst[k][l] = ck * b.coef[t][l] * (op.Kappa*dot + div)
-		}
+	if y, ok := op.Kernel.(*Yukawa); ok {
+		op.pairYukawa(dst, y, a, s, b, t, same)
+		return
 	}
+	op.pairGeneral(dst, a, s, b, t, same)
 }

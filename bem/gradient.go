@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"sync"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -38,18 +37,21 @@ func (as Assembler) CrossGradient(ctx context.Context, h *mat.Dense, op *EFIE, a
 		return Motion{}, fmt.Errorf("bem: weight matrix is %d×%d, surfaces have %d and %d unknowns", r, c, a.Len(), b.Len())
 	}
 	raw := h.RawMatrix()
-	var mu sync.Mutex
-	var total Motion
+	// Each panel of a keeps its own sum, added in panel order afterwards, so
+	// the result does not depend on how the threads were scheduled (a
+	// resumed or sharded run reproduces an uninterrupted one bit for bit).
+	part := make([]Motion, len(a.Panels))
 	err := as.byColor(ctx, a, func(s int) {
-		var acc Motion
+		acc := &part[s]
 		for t := range b.Panels {
-			gradPair(&acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
+			gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
 		}
-		mu.Lock()
-		total.Translation = r3.Add(total.Translation, acc.Translation)
-		total.Rotation = r3.Add(total.Rotation, acc.Rotation)
-		mu.Unlock()
 	})
+	var total Motion
+	for _, p := range part {
+		total.Translation = r3.Add(total.Translation, p.Translation)
+		total.Rotation = r3.Add(total.Rotation, p.Rotation)
+	}
 	return total, err
 }
 

@@ -8,6 +8,7 @@ import (
 // The two level-3 kernels below are written recursively on top of Gemm, which
 // is blocked and parallel in gonum, while its own Trsm and Syrk work column by
 // column. Recursion stops at leafSize, where gonum's kernels are efficient.
+// With OpenBLAS (build tag openblas) each is one call of the library.
 
 const leafSize = 64
 
@@ -17,7 +18,7 @@ const leafSize = 64
 //	[L11 0; L21 L22] [X1; X2] = [B1; B2]:  X1 = L11^-1 B1, X2 = L22^-1 (B2 - L21 X1).
 func solveLowerInPlace(l blas64.Triangular, b blas64.General) {
 	n := l.N
-	if n <= leafSize {
+	if n <= leafSize || openBLAS {
 		blas64.Trsm(blas.Left, blas.NoTrans, 1, l, b)
 		return
 	}
@@ -36,7 +37,7 @@ func solveLowerInPlace(l blas64.Triangular, b blas64.General) {
 // n×k), by halves: C11 += A1 A1ᵀ, C21 += A2 A1ᵀ, C22 += A2 A2ᵀ.
 func addLowerProduct(c blas64.General, a blas64.General) {
 	n := c.Rows
-	if n <= leafSize {
+	if n <= leafSize || openBLAS {
 		blas64.Syrk(blas.NoTrans, 1, a, 1, blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: c.Stride, Data: c.Data})
 		return
 	}
@@ -51,11 +52,38 @@ func addLowerProduct(c blas64.General, a blas64.General) {
 	addLowerProduct(c22, a2)
 }
 
+// addLowerProductT adds alpha a aᵀ to the lower triangle of c like
+// addLowerProduct, with aᵀ (k×n) given as well, so that the off-diagonal
+// products C21 += alpha A2 A1ᵀ are plain NoTrans Gemms.
+func addLowerProductT(c, a, at blas64.General, alpha float64) {
+	n := c.Rows
+	if n <= leafSize || openBLAS {
+		blas64.Syrk(blas.NoTrans, alpha, a, 1, blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: c.Stride, Data: c.Data})
+		return
+	}
+	h := n / 2
+	a1 := blas64.General{Rows: h, Cols: a.Cols, Stride: a.Stride, Data: a.Data}
+	a2 := blas64.General{Rows: n - h, Cols: a.Cols, Stride: a.Stride, Data: a.Data[h*a.Stride:]}
+	at1 := blas64.General{Rows: at.Rows, Cols: h, Stride: at.Stride, Data: at.Data}
+	at2 := blas64.General{Rows: at.Rows, Cols: n - h, Stride: at.Stride, Data: at.Data[h:]}
+	c11 := blas64.General{Rows: h, Cols: h, Stride: c.Stride, Data: c.Data}
+	c21 := blas64.General{Rows: n - h, Cols: h, Stride: c.Stride, Data: c.Data[h*c.Stride:]}
+	c22 := blas64.General{Rows: n - h, Cols: n - h, Stride: c.Stride, Data: c.Data[h*c.Stride+h:]}
+	addLowerProductT(c11, a1, at1, alpha)
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, alpha, a2, at1, 1, c21)
+	addLowerProductT(c22, a2, at2, alpha)
+}
+
 // solveLowerTransInPlace overwrites the n×m matrix b with L^-T b for the n×n
 // lower triangular l. It solves with the upper triangular U = Lᵀ (copied
 // once), which keeps every update a NoTrans Gemm — gonum's transposed Gemm
 // kernel is several times slower.
 func solveLowerTransInPlace(l blas64.Triangular, b blas64.General) {
+	if openBLAS {
+		// OpenBLAS's transposed Trsm is as fast as the plain one.
+		blas64.Trsm(blas.Left, blas.Trans, 1, l, b)
+		return
+	}
 	solveUpperInPlace(upperOf(l), b)
 }
 

@@ -14,5 +14,20 @@
 // M_ii = L_i L_i^T, the blocks K_ij = L_i^-1 M_ij L_j^-T and, for two bodies,
 // ln det(I - K^T K) accumulated pivot by pivot with log1p so that the far field
 // keeps its digits. Self blocks are factored once per κ and shared by every
-// point of a sweep that uses that κ.
+// point of a sweep that uses that κ. Between two separated bodies the
+// interaction block is compressed by adaptive cross approximation when it is
+// numerically low rank, and the reduction is done in the compressed form
+// (O(N² r) instead of O(N³); Settings.Dense turns this off, Point.Ranks
+// reports the ranks).
+//
+// Bodies with a real material (Body.Material, permittivity ε(iξ) at
+// ξ = cκ/L0, Settings.Length = L0 in metres) carry electric and magnetic
+// surface currents (PMCHWT, DESIGN §13; dielectric.go); a scene with any such
+// body is factored by LU and its integrand is ln |det(M M_∞^-1)|, for two
+// bodies ln det(I - M11^-1 M12 M22^-1 M21) in delta form. Over a substrate
+// the images of (J, M) enter every block.
+//
+// Every (sweep point, κ) is a unit of work: Settings.Store checkpoints the
+// finished units (so an interrupted run resumes with bit-identical results)
+// and Settings.Points restricts a run to some points (shards of a sweep).
 package scatter

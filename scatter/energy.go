@@ -38,7 +38,9 @@ func (s Settings) withDefaults() Settings {
 // Energies returns the Casimir energy of the scene at every point of the
 // sweep (DESIGN §4), at T = 0 by adaptive integration over κ and at T > 0 by
 // the Matsubara sum. Every point is checked for overlapping or touching bodies
-// before any work starts.
+// before any work starts. With Settings.Points only those points are
+// computed; the others carry their placement, gap and PFA estimate only.
+// With Settings.Store, units the store holds are not evaluated again.
 func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]Point, error) {
 	set = set.withDefaults()
 	if set.Accuracy >= 1 {
@@ -57,13 +59,23 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 	if err != nil {
 		return nil, err
 	}
+	if err := checkPoints(set.Points, len(sweep.Offsets)); err != nil {
+		return nil, err
+	}
 	sys, err := newSystem(bodies, sweep.Body, set.Threads, set.Substrate)
 	if err != nil {
+		return nil, err
+	}
+	sys.compress = newCompression(set)
+	if err := sys.setMaterials(bodies, set.Length); err != nil {
 		return nil, err
 	}
 	pts := make([]Point, len(sweep.Offsets))
 	for i, off := range sweep.Offsets {
 		pts[i] = Point{Offset: off, Turn: sweep.turn(i), Gap: gaps[i]}
+		if set.ThermalWavenumber > 0 {
+			pts[i].StaticModel = staticModels(bodies)
+		}
 	}
 	if set.Stiffness {
 		set.Forces = true
@@ -88,11 +100,15 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 	if err != nil {
 		return nil, err
 	}
+	opts, err := materialPFA(ctx, bodies, sweep, set, gaps)
+	if err != nil {
+		return nil, err
+	}
 	for i := range pts {
-		pts[i].PFA = pfaAt(bodies, sweep, i, 0, set.Substrate)
+		pts[i].PFA = pfaAt(bodies, sweep, i, 0, set.Substrate, opts...)
 		if set.Forces {
 			h := pfaStep * scale[i]
-			plus, minus := pfaAt(bodies, sweep, i, h, set.Substrate), pfaAt(bodies, sweep, i, -h, set.Substrate)
+			plus, minus := pfaAt(bodies, sweep, i, h, set.Substrate, opts...), pfaAt(bodies, sweep, i, -h, set.Substrate, opts...)
 			pts[i].PFA.Force = -(plus.Mean - minus.Mean) / (2 * h)
 		}
 	}
@@ -120,14 +136,14 @@ const pfaStep = 1e-4
 
 // pfaAt is the PFA estimate at point p with the moving body shifted by s
 // along the sweep direction.
-func pfaAt(bodies []Body, sweep Sweep, p int, s float64, plane *Plane) PFA {
+func pfaAt(bodies []Body, sweep Sweep, p int, s float64, plane *Plane, opts ...PFAOption) PFA {
 	placed := append([]Body(nil), bodies...)
 	m := sweep.place(bodies[sweep.Body].Mesh, p)
 	if s != 0 {
 		m = m.Translate(r3.Scale(s/r3.Norm(sweep.Direction), sweep.Direction))
 	}
 	placed[sweep.Body].Mesh = m
-	return PFAEnergy(placed, sweep.Body, sweep.Direction, plane)
+	return PFAEnergy(placed, sweep.Body, sweep.Direction, plane, opts...)
 }
 
 // Gaps checks every sweep point and returns the closest surface-to-surface
@@ -314,6 +330,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 	sort.SliceStable(reqs, func(i, j int) bool { return reqs[i].kappa < reqs[j].kappa })
 	r.todo += len(reqs)
 	r.progress()
+	reqs = r.loadStored(reqs)
 	grad := r.set.Forces || r.set.Stiffness
 	for i := 0; i < len(reqs); {
 		kappa := reqs[i].kappa
@@ -328,6 +345,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 				return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 			}
 			rq.dst[qLogDet] = ev.logDet
+			r.pts[rq.p].Ranks = mergeRanks(r.pts[rq.p].Ranks, ev.ranks)
 			if grad {
 				copy(rq.dst[qGrad:qGrad+6], ev.grad[:])
 			}
@@ -335,23 +353,20 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 				// Central difference of the displacement gradient along ê at
 				// the same κ (so the frequency rule is shared exactly).
 				d := r.delta[rq.p]
-				plus, err := r.sys.evaluate(ctx, sf, r.placementOf(rq.p, d), true)
+				plus, err := r.sys.evaluateFine(ctx, sf, r.placementOf(rq.p, d))
 				if err != nil {
 					return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 				}
-				minus, err := r.sys.evaluate(ctx, sf, r.placementOf(rq.p, -d), true)
+				minus, err := r.sys.evaluateFine(ctx, sf, r.placementOf(rq.p, -d))
 				if err != nil {
 					return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 				}
 				rq.dst[qStiff] = (r.along(plus.grad, rq.p) - r.along(minus.grad, rq.p)) / (2 * d)
 			}
-			smp := Sample{Kappa: kappa, Value: ev.logDet}
-			if grad {
-				smp.Gradient = ev.grad
+			if err := r.save(rq, ev.ranks); err != nil {
+				return err
 			}
-			r.pts[rq.p].Samples = append(r.pts[rq.p].Samples, smp)
-			r.done++
-			r.progress()
+			r.addSample(rq)
 		}
 		if err := ctx.Err(); err != nil {
 			return err
@@ -422,9 +437,10 @@ func (r *runner) integrate(ctx context.Context) error {
 	}
 	w := r.width()
 	st := make([]*state, len(r.pts))
+	kcs := sweepKappaScales(r.scale)
 	for i := range r.pts {
 		d := r.scale[i]
-		st[i] = &state{kc: dyadic(2 / d), cut: kappaCutoff / d, n: firstRule, f: make([][]float64, firstRule-1)}
+		st[i] = &state{kc: kcs[i], cut: kappaCutoff / d, n: firstRule, f: make([][]float64, firstRule-1), done: !r.owns(i)}
 	}
 	for {
 		var reqs []request
@@ -504,11 +520,15 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 	if eps > kt/8 {
 		eps = kt / 8 // stay well below the first Matsubara frequency
 	}
+	eps = r.sys.staticKappa(eps) // Drude metals need smaller κ (dielectric.go)
 	w := r.width()
 	np := len(r.pts)
 	fz := make([][3][]float64, np)
 	var reqs []request
 	for i := range r.pts {
+		if !r.owns(i) {
+			continue
+		}
 		for j := 0; j < 3; j++ {
 			fz[i][j] = make([]float64, w)
 			reqs = append(reqs, request{p: i, kappa: eps * float64(int(1)<<j), dst: fz[i][j]})
@@ -523,6 +543,9 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 	active := make([]bool, np)
 	for i := range r.pts {
 		sum[i], errs[i] = make([]float64, w), make([]float64, w)
+		if !r.owns(i) {
+			continue
+		}
 		for j := 0; j < w; j++ {
 			// f(κ) = f0 + aκ² + bκ⁴ + ...: Richardson in κ² on (ε, 2ε) and on
 			// (2ε, 4ε), then once more to cancel the κ⁴ term.
@@ -575,6 +598,9 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 		}
 	}
 	for i := range r.pts {
+		if !r.owns(i) {
+			continue
+		}
 		// (κ_T/2π) Σ' = (1/2π) × κ_T Σ': scale to the integral's units.
 		for j := range sum[i] {
 			sum[i][j] *= kt
@@ -635,6 +661,9 @@ func Estimate(bodies []Body) Cost {
 	ns := make([]int64, len(bodies))
 	for i, b := range bodies {
 		e := int64(3 * len(b.Mesh.Triangles) / 2) // edges of a closed mesh
+		if !isPerfect(b.Material) {
+			e *= 2 // electric and magnetic currents (DESIGN §13)
+		}
 		ns[i] = e
 		c.Unknowns += int(e)
 		sq += e * e

@@ -28,7 +28,15 @@ func plateEnergy(d float64) float64 { return -math.Pi * math.Pi / (720 * d * d *
 // Over a substrate (plane not nil) each body's panels facing the plane add
 // A_p |cos θ_p| e(h_p) with h_p the height of the panel centroid along the
 // plane normal, in both FromMoving and FromFixed (the plane has no panels).
-func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane) PFA {
+//
+// By default e is the perfect-conductor law above for every pair. The option
+// WithPlateLaw replaces it by a law of the two facing bodies' materials (for
+// instance PlateTable.Energy, the Lifshitz energy per area; DESIGN §13).
+func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane, opts ...PFAOption) PFA {
+	var cfg pfaConfig
+	for _, o := range opts {
+		o(&cfg)
+	}
 	var est PFA
 	if l := r3.Norm(dir); l > 0 {
 		dir = r3.Scale(1/l, dir)
@@ -43,8 +51,9 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane) PFA {
 	}
 	for i := range bodies {
 		for j := i + 1; j < len(bodies) && dir != (r3.Vec{}); j++ {
-			eij := pfaFrom(meshes[i], trees[j], dir)
-			eji := pfaFrom(meshes[j], trees[i], dir)
+			e := cfg.pair(i, j)
+			eij := pfaFrom(meshes[i], trees[j], dir, e)
+			eji := pfaFrom(meshes[j], trees[i], dir, e)
 			switch moving {
 			case i:
 				est.FromMoving += eij
@@ -59,8 +68,8 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane) PFA {
 		}
 	}
 	if plane != nil {
-		for _, m := range meshes {
-			e := pfaPlane(m, plane)
+		for i, m := range meshes {
+			e := pfaPlane(m, plane, cfg.pair(i, SubstrateIndex))
 			est.FromMoving += e
 			est.FromFixed += e
 		}
@@ -69,8 +78,9 @@ func PFAEnergy(bodies []Body, moving int, dir r3.Vec, plane *Plane) PFA {
 	return est
 }
 
-// pfaPlane sums the plate energy over the panels of m facing the plane.
-func pfaPlane(m *mesh.Mesh, p *Plane) float64 {
+// pfaPlane sums the energy per area plate(h) over the panels of m facing
+// the plane.
+func pfaPlane(m *mesh.Mesh, p *Plane, plate func(d float64) float64) float64 {
 	n := r3.Unit(p.Normal)
 	e := 0.0
 	for t := range m.Triangles {
@@ -79,15 +89,15 @@ func pfaPlane(m *mesh.Mesh, p *Plane) float64 {
 			continue // faces away from the plane
 		}
 		if h := r3.Dot(r3.Sub(m.Centroid(t), p.Point), n); h > 0 {
-			e += -proj * plateEnergy(h)
+			e += -proj * plate(h)
 		}
 	}
 	return e
 }
 
-// pfaFrom sums the plate energy over the panels of m facing the surface held
-// by other along ±dir.
-func pfaFrom(m *mesh.Mesh, other *mesh.Tree, dir r3.Vec) float64 {
+// pfaFrom sums the energy per area plate(d) over the panels of m facing the
+// surface held by other along ±dir.
+func pfaFrom(m *mesh.Mesh, other *mesh.Tree, dir r3.Vec, plate func(d float64) float64) float64 {
 	om := other.Mesh()
 	e := 0.0
 	for t := range m.Triangles {
@@ -108,7 +118,40 @@ func pfaFrom(m *mesh.Mesh, other *mesh.Tree, dir r3.Vec) float64 {
 		if r3.Dot(om.AreaVector(hit), ray) >= 0 {
 			continue
 		}
-		e += math.Abs(proj) * plateEnergy(d)
+		e += math.Abs(proj) * plate(d)
 	}
 	return e
+}
+
+// SubstrateIndex stands for the substrate plane in place of a body index in
+// a PlateLaw.
+const SubstrateIndex = -1
+
+// PlateLaw returns the energy per area, in ħc/L0 per L0², of two parallel
+// half-spaces at distance d (L0) made of the materials of bodies i and j
+// (j = SubstrateIndex: the perfectly conducting substrate). It must be safe
+// for concurrent use.
+type PlateLaw func(i, j int, d float64) float64
+
+// PFAOption modifies PFAEnergy.
+type PFAOption func(*pfaConfig)
+
+// WithPlateLaw makes PFAEnergy sum law in place of the perfect-conductor
+// energy per area -π²/(720 d³); a nil law keeps the default.
+func WithPlateLaw(law PlateLaw) PFAOption {
+	return func(c *pfaConfig) { c.law = law }
+}
+
+// pfaConfig holds the options of PFAEnergy.
+type pfaConfig struct {
+	law PlateLaw // nil: perfect conductors
+}
+
+// pair returns the energy per area of the pair (i, j).
+func (c *pfaConfig) pair(i, j int) func(d float64) float64 {
+	if c.law == nil {
+		return plateEnergy
+	}
+	law := c.law
+	return func(d float64) float64 { return law(i, j, d) }
 }

@@ -79,6 +79,8 @@ type Settings struct {
 	// ThermalWavenumber is the Matsubara spacing 2π k_B T/(ħc) in 1/L0
 	// (see Unit.ThermalWavenumber); zero means T = 0.
 	ThermalWavenumber float64
+	// Length is L0 in metres; needed only when a body has a real material.
+	Length float64
 	// Threads is the number of goroutines for assembly; 0 uses all cores.
 	Threads int
 	// Progress, if not nil, is called after each finished unit of work with
@@ -87,10 +89,23 @@ type Settings struct {
 	// Forces asks for the force and torque on the moving body; Stiffness
 	// also for the force gradient along the sweep direction.
 	Forces, Stiffness bool
+	// Dense keeps every interaction block dense. By default a block between
+	// separated bodies that is numerically low rank is compressed (adaptive
+	// cross approximation to a tolerance tied to Accuracy, DESIGN §10) and
+	// the two-body reduction works in the compressed form.
+	Dense bool
 	// Substrate, if not nil, is an infinite perfectly conducting plane under
 	// the scene, treated exactly by images (DESIGN §6). Point.Gap is then the
 	// distance of the moving body to the plane.
 	Substrate *Plane
+	// Points, if not nil, restricts the run to these sweep points (indices
+	// into Sweep.Offsets); the others are returned without results. Each
+	// point's frequency rule adapts to that point alone, so the results of
+	// a point do not depend on which other points are computed with it.
+	Points []int
+	// Store, if not nil, supplies finished units of work and records new
+	// ones (checkpoints; see Store).
+	Store Store
 }
 
 // Sample is one evaluation of the integrand ln det[M M_∞^-1] at an imaginary
@@ -125,6 +140,13 @@ type Point struct {
 	// For an angle sweep it is the torsional stiffness -d(τ·n)/dθ about the
 	// turn's axis n, in ħc/L0 per radian.
 	Stiffness, StiffnessError float64
+	// Ranks tells, for each interaction block, the largest rank used where
+	// it was compressed and how many evaluations were compressed or dense.
+	Ranks []BlockRank `json:",omitempty"`
+	// StaticModel tells, at T > 0 with real materials, the static limit each
+	// real body's model takes in the n = 0 Matsubara term (dielectric,
+	// drude: no TE part, or plasma), e.g. "ball: drude (drude(9 eV, 0.035 eV))".
+	StaticModel string `json:",omitempty"`
 }
 
 // PFA is the proximity-force estimate of an energy (DESIGN §7) from the

@@ -31,6 +31,12 @@ type system struct {
 	// the bodies at their reference placements.
 	plane  *Plane
 	images []*bem.Surface
+	// compress says whether interaction blocks are compressed (compress.go);
+	// the zero value keeps them dense.
+	compress compression
+	// mats holds the body materials when any body is a real (finite-ε)
+	// one (dielectric.go); nil keeps the perfect-conductor path.
+	mats *materials
 }
 
 func newSystem(bodies []Body, moving, threads int, plane *Plane) (*system, error) {
@@ -107,10 +113,19 @@ type selfFactors struct {
 	kappa float64
 	op    *bem.EFIE
 	f     []*factor
+	// real holds the LU factors of a scene with real materials
+	// (dielectric.go) in place of f.
+	real *realSelf
+	// blocks holds the assembled self blocks when a substrate needs them
+	// (planedirect.go).
+	blocks []*mat.SymDense
 }
 
 // factorSelf assembles and factors the self blocks at κ.
 func (sys *system) factorSelf(ctx context.Context, kappa float64) (*selfFactors, error) {
+	if sys.mats != nil {
+		return sys.factorSelfReal(ctx, kappa)
+	}
 	op, err := bem.NewEFIE(kappa)
 	if err != nil {
 		return nil, err
@@ -119,6 +134,9 @@ func (sys *system) factorSelf(ctx context.Context, kappa float64) (*selfFactors,
 	for i, s := range sys.surf {
 		if j := sys.copyOf[i]; j >= 0 {
 			sf.f = append(sf.f, sf.f[j]) // translation invariance: the same block
+			if sys.plane != nil {
+				sf.blocks = append(sf.blocks, sf.blocks[j])
+			}
 			continue
 		}
 		m := mat.NewSymDense(s.Len(), nil)
@@ -130,6 +148,9 @@ func (sys *system) factorSelf(ctx context.Context, kappa float64) (*selfFactors,
 			return nil, sys.coarse(kappa, sys.names[i], err)
 		}
 		sf.f = append(sf.f, f)
+		if sys.plane != nil {
+			sf.blocks = append(sf.blocks, m)
+		}
 	}
 	return sf, nil
 }
@@ -176,6 +197,8 @@ type evaluation struct {
 	// grad holds d ln det M/d(u_x, u_y, u_z, θ_x, θ_y, θ_z) for a
 	// displacement u and turns θ of the moving body about the centre.
 	grad [6]float64
+	// ranks records how the interaction blocks were handled.
+	ranks []BlockRank
 }
 
 // evaluate returns the integrand ln det[M M_∞^-1] at the κ of sf with the
@@ -185,11 +208,14 @@ func (sys *system) evaluate(ctx context.Context, sf *selfFactors, pl placement, 
 	if err != nil {
 		return evaluation{}, err
 	}
+	if sys.mats != nil {
+		return sys.evaluateReal(ctx, sf, surf, pl, grad)
+	}
 	if sys.plane != nil {
 		return sys.evaluatePlane(ctx, sf, surf, pl, grad)
 	}
 	if len(surf) == 2 {
-		return sys.evaluatePair(ctx, sf, surf, pl, grad)
+		return sys.evaluateTwo(ctx, sf, surf, pl, grad)
 	}
 	return sys.evaluateMany(ctx, sf, surf, pl, grad)
 }
@@ -321,58 +347,29 @@ func (sys *system) evaluateMany(ctx context.Context, sf *selfFactors, surf []*be
 
 // evaluatePlane is the integrand with the substrate (DESIGN §6): every block
 // of M becomes M_ij - M(i, image of j), the self blocks included, while M_∞
-// keeps the free-space self blocks. Whitened with the free self factors the
-// matrix is I - Δ with Δ_ii = L_i^-1 M(i, img i) L_i^-T and
-// Δ_ij = -(K_ij - K(i, img j)), factored in delta form. The gradient adds
+// keeps the free-space self blocks; factorPlane factors that matrix M_P
+// once (planedirect.go). The gradient contracts (M_P^-1)_im with the block
+// derivatives and adds
 // the motion of the moving body's image (mirrored displacement, turn by -θ
 // about the mirrored axis through the mirrored centre).
 func (sys *system) evaluatePlane(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	p := sys.plane
 	imgs := append([]*bem.Surface(nil), sys.images...)
 	imgs[sys.moving] = surf[sys.moving].Mirror(p.Point, p.Normal)
-	start := make([]int, len(surf)+1)
-	for i, s := range surf {
-		start[i+1] = start[i] + s.Len()
+	solve := sys.whitenedPlane
+	if nearPlane(surf, p) {
+		solve = sys.factorPlane
 	}
-	n := start[len(surf)]
-	delta := make([]float64, n*n)
-	put := func(r0, c0 int, y blas64.General, sign float64) { // adds sign*y at (r0, c0)
-		for r := 0; r < y.Rows; r++ {
-			row := delta[(r0+r)*n+c0:]
-			for c, v := range y.Data[r*y.Stride : r*y.Stride+y.Cols] {
-				row[c] += sign * v
-			}
-		}
-	}
-	for i := range surf {
-		y, err := sys.whitenedWith(ctx, sf, surf[i], i, imgs[i], i)
-		if err != nil {
-			return evaluation{}, err
-		}
-		put(start[i], start[i], y, 1)
-		for j := i + 1; j < len(surf); j++ {
-			k, err := sys.whitenedWith(ctx, sf, surf[i], i, surf[j], j)
-			if err != nil {
-				return evaluation{}, err
-			}
-			ki, err := sys.whitenedWith(ctx, sf, surf[i], i, imgs[j], j)
-			if err != nil {
-				return evaluation{}, err
-			}
-			put(start[j], start[i], k, -1)
-			put(start[j], start[i], ki, 1)
-		}
-	}
-	ld, err := logDetIMinus(delta, n, n, sys.threads)
+	ld, pf, err := solve(ctx, sf, surf, imgs)
 	if err != nil {
-		return evaluation{}, sys.checkPositive(sf.kappa, err)
+		return evaluation{}, err
 	}
 	ev := evaluation{logDet: ld}
 	if !grad {
 		return ev, nil
 	}
 	m := sys.moving
-	wim := sys.inverseColumn(sf, delta, start, m)
+	wim := pf.inverseColumn(m)
 	nn := r3.Unit(p.Normal)
 	mirror := func(v r3.Vec) r3.Vec { return r3.Sub(v, r3.Scale(2*r3.Dot(v, nn), nn)) }
 	pc := r3.Sub(pl.centre, r3.Scale(2*r3.Dot(r3.Sub(pl.centre, p.Point), nn), nn))

@@ -2,9 +2,12 @@
 // perfectly conducting bodies given as triangle meshes.
 //
 //	fluctus run JOB.yaml        compute the energy along a job's sweep
+//	fluctus merge DIR...        combine the shards of run --shard i/n
 //	fluctus demo                run the built-in example scene
 //	fluctus mesh info FILE.stl  statistics and defects of a mesh
 //	fluctus mesh make SHAPE     write a generated shape as STL
+//	fluctus material show NAME  a material's permittivity at imaginary frequency
+//	fluctus lifshitz            plate-plate energy and pressure of two materials
 //
 // See README.md for the job file and the output files.
 package main

@@ -47,6 +47,10 @@ conducting bodies of any shape from their triangle meshes, by the
 boundary-element method at imaginary frequency, with an error estimate and the
 proximity-force approximation (PFA) beside every result.
 
+Bodies may also be given real materials (a job file's material key; "fluctus
+material show --list" lists the named ones), and "fluctus lifshitz" gives the
+plate-plate interaction of two materials without any mesh.
+
 Start with "fluctus demo", then describe your own scene in a job file and use
 "fluctus run JOB.yaml". Lengths are always in the unit the job file names.`,
 		Version:       version,
@@ -56,6 +60,7 @@ Start with "fluctus demo", then describe your own scene in a job file and use
 	root.CompletionOptions.HiddenDefaultCmd = true
 	root.SetOut(a.stdout)
 	root.SetErr(a.stderr)
-	root.AddCommand(a.runCommand(), a.demoCommand(), a.meshCommand(), a.plotCommand(), a.verifyCommand())
+	root.AddCommand(a.runCommand(), a.mergeCommand(), a.demoCommand(), a.meshCommand(), a.plotCommand(), a.verifyCommand(),
+		a.materialCommand(), a.lifshitzCommand())
 	return root
 }

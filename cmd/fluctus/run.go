@@ -42,6 +42,7 @@ type runOptions struct {
 	stickingRounds int
 	// plot also draws the figures and report.html (see fluctus plot).
 	plot bool
+	shardOptions
 }
 
 func (o *runOptions) addFlags(fs *pflag.FlagSet, outHelp string) {
@@ -94,9 +95,16 @@ only when every point has been computed. A failed or interrupted computation
 therefore leaves no result files; a job that fails its checks leaves the
 directory untouched. Ctrl-C stops a run cleanly.
 
-Results are idealised (smooth homogeneous perfect conductors in vacuum at the
-given temperature; no roughness, patch charges or humidity): keep margin and
-defer to your own qualification practice and the applicable standards.`
+With real materials the PFA columns use the Lifshitz energy per area of the
+two facing bodies' materials (the substrate is a perfect conductor) at the
+job's temperature, and the output names each body's material and, at T > 0,
+the n = 0 Matsubara treatment (Drude metals: no TE contribution; plasma
+metals: kept).
+
+Results are idealised (smooth homogeneous perfect conductors, or bodies of the
+stated material models, in vacuum at the given temperature; no roughness,
+patch charges or humidity): keep margin and defer to your own qualification
+practice and the applicable standards.`
 
 func (a *app) runCommand() *cobra.Command {
 	var o runOptions
@@ -127,6 +135,11 @@ the Casimir energy, force, torque and stiffness at every sweep point.
                                      # or refined by mesh_size {near, far}
       rotation: {axis: [0, 1, 0], degrees: 10}   # about the body's own origin,
                                                  # applied before position
+      material: gold-drude           # default perfect; a named model (fluctus
+                                     # material show --list), an inline one
+                                     # ({drude: {plasma_eV: 9, damping_eV:
+                                     # 0.035}}, {plasma: ...}, {lorentz: [...]},
+                                     # {permittivity: 11.7}) or {table: FILE}
   sweep:
     body: ball             # the body that moves
     direction: [0, 0, -1]  # in which it approaches the others
@@ -147,7 +160,7 @@ then taken about that point.
 
 The default output directory is JOB.out next to the job file (for
 jobs/plate.yaml: jobs/plate.out).
-` + outputHelp,
+` + outputHelp + "\n" + shardHelp,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			j, err := job.Load(args[0])
@@ -155,12 +168,15 @@ jobs/plate.yaml: jobs/plate.out).
 				return err
 			}
 			if o.out == "" {
-				o.out = filepath.Join(j.Dir, j.Name+".out")
+				if o.out, err = o.defaultOut(j); err != nil {
+					return err
+				}
 			}
 			return a.execute(cmd.Context(), j, o)
 		},
 	}
 	o.addFlags(cmd.Flags(), "output directory (default: JOB.out next to the job file)")
+	o.addShardFlags(cmd.Flags())
 	return cmd
 }
 
@@ -181,6 +197,9 @@ func (a *app) execute(ctx context.Context, j *job.Job, o runOptions) error {
 	if o.levels != 2 && o.levels != 3 {
 		return fmt.Errorf("--levels %d: a convergence study runs 2 or 3 mesh levels", o.levels)
 	}
+	if err := o.checkShardOptions(); err != nil {
+		return err
+	}
 	scales := []float64{1}
 	if o.convergence {
 		if !refinable(j) {
@@ -192,7 +211,7 @@ func (a *app) execute(ctx context.Context, j *job.Job, o runOptions) error {
 	// Build and check every level before anything is computed.
 	levels := make([]*level, len(scales))
 	for i, f := range scales {
-		lv, err := a.prepare(j, f)
+		lv, err := a.prepare(ctx, j, f)
 		if err != nil {
 			if len(scales) > 1 {
 				return fmt.Errorf("mesh level %d (mesh sizes x %.3g): %w", i+1, f, err)
@@ -209,8 +228,10 @@ func (a *app) execute(ctx context.Context, j *job.Job, o runOptions) error {
 	if o.pfaOnly {
 		return a.pfaOnly(ctx, j, finest, o)
 	}
-	if err := a.checkMemory(finest.cost, o.memoryLimit); err != nil {
-		return err
+	if o.merge == nil || j.Spring != nil { // a merge computes only sticking points
+		if err := a.checkMemory(finest.cost, o.memoryLimit); err != nil {
+			return err
+		}
 	}
 	if err := os.MkdirAll(o.out, 0o755); err != nil {
 		return fmt.Errorf("creating the output directory: %w", err)
@@ -221,17 +242,26 @@ func (a *app) execute(ctx context.Context, j *job.Job, o runOptions) error {
 
 	start := time.Now()
 	results := make([]*report.Result, len(levels))
+	cks := make([]*checkpoint, len(levels))
 	for i, lv := range levels {
 		what := "computing the energies"
 		if len(levels) > 1 {
 			what = fmt.Sprintf("computing mesh level %d of %d", i+1, len(levels))
 		}
-		points, err := a.solve(ctx, lv.scene, lv.scene.Sweep, o, what)
+		ck, err := a.openCheckpoint(j, lv, o, i, len(levels))
+		if err != nil {
+			return err
+		}
+		cks[i] = ck
+		points, err := a.solveWith(ctx, lv.scene, lv.scene.Sweep, o, what, ck)
 		if err != nil {
 			return err
 		}
 		results[i] = report.New(lv.scene, lv.cost, points)
 		lv.points = points
+	}
+	if ck := cks[0]; ck.spec != nil {
+		return a.finishShard(j, ck)
 	}
 	res := results[len(results)-1]
 	if len(levels) > 1 {
@@ -260,6 +290,9 @@ func (a *app) execute(ctx context.Context, j *job.Job, o runOptions) error {
 		return err
 	}
 	if err := report.WriteFiles(o.out, res); err != nil {
+		return err
+	}
+	if err := a.finishCheckpoints(cks); err != nil {
 		return err
 	}
 	fmt.Fprintf(a.stdout, "\nwrote %s and %s (%s)\n",
@@ -309,8 +342,9 @@ func refinable(j *job.Job) bool {
 	return false
 }
 
-// prepare builds the job at a mesh scale and checks every sweep point.
-func (a *app) prepare(j *job.Job, scale float64) (*level, error) {
+// prepare builds the job at a mesh scale and checks every sweep point;
+// with real materials it also tabulates their plate law for the PFA.
+func (a *app) prepare(ctx context.Context, j *job.Job, scale float64) (*level, error) {
 	scene, err := j.BuildScaled(scale)
 	if err != nil {
 		return nil, err
@@ -320,6 +354,9 @@ func (a *app) prepare(j *job.Job, scale float64) (*level, error) {
 		return nil, err
 	}
 	if err := scene.CheckSweep(gaps); err != nil {
+		return nil, err
+	}
+	if err := scene.MakePlates(ctx, gaps); err != nil {
 		return nil, err
 	}
 	return &level{scale: scale, scene: scene, gaps: gaps, cost: a.estimate(scene.Bodies)}, nil
@@ -333,7 +370,7 @@ func (a *app) describe(j *job.Job, levels []*level) {
 			prefix = fmt.Sprintf("level %d (mesh sizes x %.3g): ", i+1, lv.scale)
 		}
 		for k, b := range lv.scene.Bodies {
-			fmt.Fprintf(a.stdout, "%sbody %s: %d triangles (%s)\n", prefix, b.Name, len(b.Mesh.Triangles), j.Bodies[k].Source())
+			fmt.Fprintf(a.stdout, "%sbody %s: %d triangles (%s)%s\n", prefix, b.Name, len(b.Mesh.Triangles), j.Bodies[k].Source(), materialNote(&j.Bodies[k]))
 		}
 	}
 	for i, lv := range levels {
@@ -360,6 +397,7 @@ func (a *app) settings(j *job.Job, scene *job.Scene, o runOptions) scatter.Setti
 	return scatter.Settings{
 		Accuracy:          j.Accuracy,
 		ThermalWavenumber: j.Unit.ThermalWavenumber(j.Temperature),
+		Length:            float64(j.Unit),
 		Threads:           o.threads,
 		Forces:            j.Forces,
 		Stiffness:         j.Forces,
@@ -371,17 +409,24 @@ func (a *app) settings(j *job.Job, scene *job.Scene, o runOptions) scatter.Setti
 // turns its failures into the messages of the command line; what says what
 // is computed, for messages.
 func (a *app) solve(ctx context.Context, scene *job.Scene, sw scatter.Sweep, o runOptions, what string) ([]scatter.Point, error) {
+	return a.solveWith(ctx, scene, sw, o, what, nil)
+}
+
+// solveWith is solve with the checkpoint of the job's own sweep (nil: none).
+func (a *app) solveWith(ctx context.Context, scene *job.Scene, sw scatter.Sweep, o runOptions, what string, ck *checkpoint) ([]scatter.Point, error) {
 	set := a.settings(scene.Job, scene, o)
+	ck.apply(&set)
 	progress, done := a.progress(o.quiet)
 	set.Progress = progress
 	points, err := a.energies(ctx, scene.Bodies, sw, set)
 	done()
 	if err != nil {
 		if ctx.Err() != nil {
+			hint := ck.resumeHint()
 			if cause := context.Cause(ctx); cause != ctx.Err() {
-				return nil, fmt.Errorf("interrupted (%v), no results written: %w", cause, ctx.Err())
+				return nil, fmt.Errorf("interrupted (%v), no results written%s: %w", cause, hint, ctx.Err())
 			}
-			return nil, fmt.Errorf("interrupted, no results written: %w", ctx.Err())
+			return nil, fmt.Errorf("interrupted, no results written%s: %w", hint, ctx.Err())
 		}
 		return nil, fmt.Errorf("%s: %w", what, err)
 	}
@@ -440,6 +485,9 @@ func (a *app) sticking(ctx context.Context, j *job.Job, lv *level, res *report.R
 		return err
 	}
 	res.Add(scene, out.Added, report.AddedForSticking)
+	if sum := j.MaterialSummary(); sum != "" {
+		out.Report.Material = "bodies of the stated material models (" + sum + ")"
+	}
 	res.SetSticking(out.Report, out.Samples, out.Rounds, out.Converged, contactDeg)
 	return nil
 }
@@ -448,7 +496,7 @@ func (a *app) sticking(ctx context.Context, j *job.Job, lv *level, res *report.R
 // level, without the solver.
 func (a *app) pfaOnly(ctx context.Context, j *job.Job, lv *level, o runOptions) error {
 	scene := lv.scene
-	est := pfa.Sweep(scene.Bodies, scene.Sweep, scene.Substrate, lv.gaps)
+	est := pfa.Sweep(scene.Bodies, scene.Sweep, scene.Substrate, lv.gaps, scene.PFAOptions()...)
 	res := report.NewPFA(scene, est, lv.gaps)
 	if err := os.MkdirAll(o.out, 0o755); err != nil {
 		return fmt.Errorf("creating the output directory: %w", err)

@@ -9,6 +9,7 @@ import (
 
 	"github.com/fluctus/fluctus/mesh"
 	"github.com/fluctus/fluctus/scatter"
+	"github.com/fluctus/fluctus/scatter/material"
 )
 
 // Scene is a job made concrete: the bodies' meshes placed in scene
@@ -23,6 +24,10 @@ type Scene struct {
 	// the job as written; smaller for the finer levels of a convergence
 	// study).
 	MeshScale float64
+	// Plates is the Lifshitz energy per area of the bodies' materials for
+	// the PFA baseline (see MakePlates); nil when every body is a perfect
+	// conductor or it has not been made.
+	Plates *scatter.PlateTable
 }
 
 // Build generates or loads the mesh of every body, checks it (Validate),
@@ -58,11 +63,14 @@ func (j *Job) BuildScaled(scale float64) (*Scene, error) {
 	graded := false
 	for i := range j.Bodies {
 		b := &j.Bodies[i]
+		if err := j.readMaterial(b); err != nil {
+			return nil, err
+		}
 		m, err := b.mesh(scale, nil)
 		if err != nil {
 			return nil, j.bodyError(b, err)
 		}
-		s.Bodies = append(s.Bodies, scatter.Body{Name: b.Name, Mesh: m})
+		s.Bodies = append(s.Bodies, scatter.Body{Name: b.Name, Mesh: m, Material: b.Material})
 		graded = graded || b.Grading != nil
 	}
 	if err := s.checkFixedOverSubstrate(); err != nil {
@@ -171,6 +179,20 @@ func (b *Body) ownMesh(scale float64, size func(r3.Vec) float64) (*mesh.Mesh, er
 // grading returns the body's graded size range scaled by scale.
 func (b *Body) grading(scale float64) mesh.Grading {
 	return mesh.Grading{Near: b.Grading.Near * scale, Far: b.Grading.Far * scale}
+}
+
+// readMaterial reads the optical-data table of a {table: FILE} material
+// into b.Material (once).
+func (j *Job) readMaterial(b *Body) error {
+	if b.materialSpec == nil || b.Material != nil {
+		return nil
+	}
+	m, err := material.Parse(b.materialSpec, b.materialDir)
+	if err != nil {
+		return &Error{File: j.Path, Line: b.MaterialLine, Key: fmt.Sprintf("body %q: material", b.Name), Problem: materialProblem(b.materialSpec, err)}
+	}
+	b.Material = m
+	return nil
 }
 
 // bodyError places an error about a body's mesh at the body's entry. Mesh

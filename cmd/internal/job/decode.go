@@ -18,6 +18,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"github.com/fluctus/fluctus/scatter"
+	"github.com/fluctus/fluctus/scatter/material"
 )
 
 // Error is a problem with a job file. Error() reads
@@ -444,7 +445,7 @@ func (d *decoder) substrate(n *yaml.Node) (*Substrate, error) {
 	return s, nil
 }
 
-var bodyKeys = []string{"name", "shape", "file", "mesh_size", "position", "rotation"}
+var bodyKeys = []string{"name", "shape", "file", "mesh_size", "position", "rotation", "material"}
 
 func (d *decoder) bodies(n *yaml.Node, j *Job) error {
 	n = resolve(n)
@@ -567,7 +568,70 @@ func (d *decoder) body(n *yaml.Node, key, dir string) (Body, error) {
 			return b, err
 		}
 	}
+	if f, ok := fields["material"]; ok {
+		b.MaterialLine = f.key.Line
+		if err := d.material(f.value, join(key, "material"), &b, dir); err != nil {
+			return b, err
+		}
+	}
 	return b, nil
+}
+
+// material reads a body's material: a library name, an inline model or
+// {table: FILE} (material.Parse). A table is only checked for its form here
+// (Decode reads no file); Build reads it. perfect leaves Material nil.
+func (d *decoder) material(n *yaml.Node, key string, b *Body, dir string) error {
+	n = resolve(n)
+	var spec any
+	if err := n.Decode(&spec); err != nil {
+		return d.errorf(n, key, "body %q: cannot read the material: %v", b.Name, err)
+	}
+	if m, ok := spec.(map[string]any); ok {
+		if file, ok := m["table"]; ok {
+			if name, ok := file.(string); !ok || strings.TrimSpace(name) == "" {
+				return d.errorf(n, key, "body %q: table: want the name of an optical-data file relative to the job file (e.g. material: {table: gold.txt}), got %v", b.Name, file)
+			}
+			b.materialSpec, b.materialDir = spec, dir
+			return nil
+		}
+	}
+	m, err := material.Parse(spec, dir)
+	if err != nil {
+		return d.errorf(n, key, "body %q: %s", b.Name, materialProblem(spec, err))
+	}
+	if material.KindOf(m) != material.KindPerfect {
+		b.Material = m
+	}
+	return nil
+}
+
+// materialProblem is the text of a material error without its package
+// prefix; for an unknown name that starts a library name (gold), it names
+// the candidates first.
+func materialProblem(spec any, err error) string {
+	msg := strings.TrimPrefix(err.Error(), "material: ")
+	if name, ok := spec.(string); ok {
+		if c := MaterialCandidates(name); len(c) > 0 {
+			return fmt.Sprintf("unknown material %q: say %s (fluctus material show --list lists every named material)", name, strings.Join(c, " or "))
+		}
+	}
+	return msg
+}
+
+// MaterialCandidates returns the library names that extend name by a model
+// suffix (gold: gold-drude, gold-plasma).
+func MaterialCandidates(name string) []string {
+	key := strings.ToLower(strings.TrimSpace(name))
+	if key == "aluminum" {
+		key = "aluminium"
+	}
+	var out []string
+	for _, n := range material.Names() {
+		if key != "" && strings.HasPrefix(n, key+"-") {
+			out = append(out, n)
+		}
+	}
+	return out
 }
 
 // shapeKeys lists the parameters of each shape.

@@ -11,6 +11,12 @@
 // overlap or touch, and that none touches or crosses the substrate, at any
 // sweep point; Scene.CheckSweep checks what needs the gaps.
 //
+// A body's material key names its dielectric model (package
+// scatter/material: a library name, an inline model or an optical-data
+// table, which Build reads); no key, or perfect, is a perfect conductor.
+// With real materials Scene.MakePlates tabulates the Lifshitz plate law the
+// PFA estimates use (Scene.PFAOptions).
+//
 // Units: every length in a job file (sizes, positions, gaps, offsets,
 // mesh sizes, the substrate's point) and in the resulting meshes is in the
 // job's length unit L0, given by its `unit` key; temperatures are in kelvin,

@@ -7,6 +7,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/fluctus/fluctus/scatter"
+	"github.com/fluctus/fluctus/scatter/material"
 )
 
 // Defaults for optional keys.
@@ -86,6 +87,41 @@ type Body struct {
 
 	Position r3.Vec    // L0
 	Rotation *Rotation // nil: no rotation
+
+	// Material is the body's dielectric model at imaginary frequency; nil
+	// is a perfect conductor (no material key, or material: perfect). A
+	// {table: FILE} material is read by Build, which sets Material.
+	Material material.Model
+	// MaterialLine is the line of the material key (0: none given).
+	MaterialLine int
+	// materialSpec is a table material as decoded, read by Build from
+	// materialDir.
+	materialSpec any
+	materialDir  string
+}
+
+// MaterialName names the body's material: "perfect" or the model's name.
+func (b *Body) MaterialName() string {
+	if b.Material == nil {
+		if b.materialSpec != nil {
+			if m, ok := b.materialSpec.(map[string]any); ok {
+				return fmt.Sprintf("table %v", m["table"])
+			}
+		}
+		return "perfect"
+	}
+	return b.Material.Name()
+}
+
+// RealMaterials reports whether some body of the job is not a perfect
+// conductor.
+func (j *Job) RealMaterials() bool {
+	for i := range j.Bodies {
+		if j.Bodies[i].Material != nil || j.Bodies[i].materialSpec != nil {
+			return true
+		}
+	}
+	return false
 }
 
 // Grading is a triangle size range (L0): Near at the closest approach of the

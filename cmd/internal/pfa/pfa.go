@@ -17,8 +17,10 @@ const forceStep = 1e-4
 // placed (turned by sw.Turns[p], then moved by sw.Offsets[p]) and the
 // substrate plane (nil: none), and Force = -dMean/ds for a
 // displacement s of the moving body along sw.Direction, by central
-// differences with a step of 1e-4 of the point's gap gaps[p] (L0).
-func Sweep(bodies []scatter.Body, sw scatter.Sweep, plane *scatter.Plane, gaps []float64) []scatter.PFA {
+// differences with a step of 1e-4 of the point's gap gaps[p] (L0). The
+// options are those of scatter.PFAEnergy (e.g. the plate law of the bodies'
+// materials).
+func Sweep(bodies []scatter.Body, sw scatter.Sweep, plane *scatter.Plane, gaps []float64, opts ...scatter.PFAOption) []scatter.PFA {
 	out := make([]scatter.PFA, len(sw.Offsets))
 	dir := sw.Direction
 	if l := r3.Norm(dir); l > 0 {
@@ -32,7 +34,7 @@ func Sweep(bodies []scatter.Body, sw scatter.Sweep, plane *scatter.Plane, gaps [
 			if s != 0 {
 				placed[sw.Body].Mesh = moved.Translate(r3.Scale(s, dir))
 			}
-			return scatter.PFAEnergy(placed, sw.Body, dir, plane)
+			return scatter.PFAEnergy(placed, sw.Body, dir, plane, opts...)
 		}
 		e := at(0)
 		if h := forceStep * gaps[p]; h > 0 && r3.Norm(dir) > 0 {

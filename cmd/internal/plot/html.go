@@ -241,13 +241,23 @@ figcaption { font-size: 0.9rem; color: #444; margin-top: 0.3rem; }
 {{- with .R.Substrate}}
 <tr><th>substrate</th><td>infinite perfectly conducting plane through ({{index .Point 0}}, {{index .Point 1}}, {{index .Point 2}}) with normal ({{index .Normal 0}}, {{index .Normal 1}}, {{index .Normal 2}})</td></tr>
 {{- end}}
+{{- with .R.Materials}}
+<tr><th>materials</th><td>{{.}}</td></tr>
+{{- end}}
+{{- with .R.ZeroFrequency}}
+<tr><th>n = 0 Matsubara term</th><td>{{.}}</td></tr>
+{{- end}}
+{{- with .R.PFALaw}}
+<tr><th>PFA plate law</th><td>{{.}}</td></tr>
+{{- end}}
 </table>
 
 <h3>Bodies</h3>
 <table>
-<tr><th>name</th><th>mesh</th><th>triangles</th><th>unknowns</th></tr>
+<tr><th>name</th><th>mesh</th><th>triangles</th><th>unknowns</th>{{if .R.Materials}}<th>material</th>{{end}}</tr>
+{{- $materials := .R.Materials}}
 {{- range .R.Bodies}}
-<tr><td>{{.Name}}</td><td>{{.Source}}</td><td>{{.Triangles}}</td><td>{{.Unknowns}}</td></tr>
+<tr><td>{{.Name}}</td><td>{{.Source}}</td><td>{{.Triangles}}</td><td>{{.Unknowns}}</td>{{if $materials}}<td>{{.Material}} ({{.MaterialKind}})</td>{{end}}</tr>
 {{- end}}
 </table>
 

@@ -35,8 +35,13 @@ type Result struct {
 	Bodies       []Body  `json:"bodies"`
 	Sweep        Sweep   `json:"sweep"`
 	// Substrate is the infinite conducting plane under the scene, if any.
-	Substrate *Plane  `json:"substrate"`
-	Points    []Point `json:"points"`
+	Substrate *Plane `json:"substrate"`
+	// Materials, ZeroFrequency (the n = 0 Matsubara treatment at T > 0)
+	// and PFALaw are empty when every body is a perfect conductor.
+	Materials     string  `json:"materials"`
+	ZeroFrequency string  `json:"zero_frequency"`
+	PFALaw        string  `json:"pfa_law"`
+	Points        []Point `json:"points"`
 	// Sticking is the pull-in analysis of a suspended body, if any.
 	Sticking *Sticking `json:"sticking"`
 }
@@ -47,6 +52,9 @@ type Body struct {
 	Source    string `json:"source"` // mesh file or generated shape
 	Triangles int    `json:"triangles"`
 	Unknowns  int    `json:"unknowns"`
+	// Material and MaterialKind are set when some body has a real material.
+	Material     string `json:"material"`
+	MaterialKind string `json:"material_kind"`
 }
 
 // Sweep describes how the moving body was displaced.

@@ -438,3 +438,22 @@ func TestConvergence(t *testing.T) {
 	}
 	checkWidth(t, tab.String())
 }
+
+// TestBlockRanks checks that the solver's block-rank records reach the
+// result file unchanged (the solver's numbers are invented).
+func TestBlockRanks(t *testing.T) {
+	pts := forcePoints()
+	pts[0].Ranks = []scatter.BlockRank{{Rows: "a", Cols: "b", Rank: 37, Compressed: 12, Dense: 3}}
+	r := New(forceScene(t), scatter.Cost{}, pts)
+	want := []BlockRank{{Rows: "a", Cols: "b", Rank: 37, Compressed: 12, Dense: 3}}
+	if got := r.Points[0].BlockRanks; len(got) != 1 || got[0] != want[0] {
+		t.Errorf("block ranks %+v, want %+v", got, want)
+	}
+	var js bytes.Buffer
+	if err := WriteJSON(&js, r); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(js.String(), `"block_ranks"`) || !strings.Contains(js.String(), `"max_rank": 37`) {
+		t.Errorf("result.json lacks the block ranks:\n%s", js.String())
+	}
+}

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"fmt"
 	"math"
 	"strconv"
 
@@ -8,6 +9,7 @@ import (
 
 	"github.com/fluctus/fluctus/cmd/internal/job"
 	"github.com/fluctus/fluctus/scatter"
+	"github.com/fluctus/fluctus/scatter/material"
 	"github.com/fluctus/fluctus/scatter/sticking"
 )
 
@@ -16,6 +18,22 @@ import (
 const Notice = "Results are idealised: smooth, homogeneous, perfectly conducting bodies in vacuum " +
 	"at the stated temperature, with no surface roughness, patch charges or humidity. " +
 	"Keep margin in any design and defer to your own qualification practice and the applicable standards."
+
+// NoticeFor returns the idealisation notice of a run of job j: Notice
+// when every body is a perfect conductor, otherwise the same limits for
+// bodies of the job's material models, with the n = 0 Matsubara treatment
+// at T > 0.
+func NoticeFor(j *job.Job) string {
+	if !j.RealMaterials() {
+		return Notice
+	}
+	n := "Results are idealised: smooth, homogeneous bodies of the stated material models (" + j.MaterialSummary() +
+		") in vacuum at the stated temperature, with no surface roughness, patch charges or humidity; the models only approximate the optical response of real surfaces"
+	if z := j.ZeroFrequency(); z != "" {
+		n += "; at T > 0 the result depends on the model of the static limit: " + z
+	}
+	return n + ". Keep margin in any design and defer to your own qualification practice and the applicable standards."
+}
 
 // Modes of a run, the mode field of result.json.
 const (
@@ -41,8 +59,15 @@ type Result struct {
 	Bodies      []Body `json:"bodies"`
 	Sweep       Sweep  `json:"sweep"`
 	// Substrate is the conducting plane under the scene, if any.
-	Substrate *Plane  `json:"substrate,omitempty"`
-	Points    []Point `json:"points"`
+	Substrate *Plane `json:"substrate,omitempty"`
+	// With real materials: Materials lists each body's material,
+	// ZeroFrequency states the n = 0 Matsubara treatment at T > 0 and
+	// PFALaw the plate law of the PFA estimates. All empty when every body
+	// is a perfect conductor.
+	Materials     string  `json:"materials,omitempty"`
+	ZeroFrequency string  `json:"zero_frequency,omitempty"`
+	PFALaw        string  `json:"pfa_law,omitempty"`
+	Points        []Point `json:"points"`
 	// Sticking is the analysis of the moving body on its spring, if the job
 	// gives one.
 	Sticking *Sticking `json:"sticking,omitempty"`
@@ -59,6 +84,10 @@ type Body struct {
 	Source    string `json:"source"` // mesh file or generated shape
 	Triangles int    `json:"triangles"`
 	Unknowns  int    `json:"unknowns"` // RWG functions (edges of the closed mesh)
+	// Material and MaterialKind (dielectric, drude, plasma or perfect) are
+	// set for every body when some body has a real material.
+	Material     string `json:"material,omitempty"`
+	MaterialKind string `json:"material_kind,omitempty"`
 }
 
 // Sweep describes how the moving body was displaced.
@@ -117,7 +146,21 @@ type Point struct {
 	// empty for the job's own sweep points.
 	AddedFor string `json:"added_for,omitempty"`
 
+	// BlockRanks tells how each interaction block was handled: the largest
+	// rank where it was compressed, and how many frequency evaluations
+	// were compressed or dense.
+	BlockRanks []BlockRank `json:"block_ranks,omitempty"`
+
 	Samples []Sample `json:"samples"`
+}
+
+// BlockRank is the handling of one interaction block between two bodies.
+type BlockRank struct {
+	Rows       string `json:"rows"`
+	Cols       string `json:"cols"`
+	Rank       int    `json:"max_rank"`
+	Compressed int    `json:"compressed"`
+	Dense      int    `json:"dense"`
 }
 
 // Sample is one evaluation of the frequency integrand.
@@ -171,7 +214,7 @@ func New(s *job.Scene, c scatter.Cost, points []scatter.Point) *Result {
 func header(s *job.Scene, c scatter.Cost, forces bool) *Result {
 	j := s.Job
 	r := &Result{
-		Notice:       Notice,
+		Notice:       NoticeFor(j),
 		Job:          j.Path,
 		Mode:         ModeSolver,
 		Unit:         j.Unit.Name(),
@@ -194,14 +237,37 @@ func header(s *job.Scene, c scatter.Cost, forces bool) *Result {
 	if p := s.Substrate; p != nil {
 		r.Substrate = &Plane{Point: [3]float64{p.Point.X, p.Point.Y, p.Point.Z}, Normal: [3]float64{p.Normal.X, p.Normal.Y, p.Normal.Z}}
 	}
+	withMaterials := j.RealMaterials()
 	for i, b := range s.Bodies {
 		st := b.Mesh.Stats()
-		r.Bodies = append(r.Bodies, Body{
+		rb := Body{
 			Name:      b.Name,
 			Source:    j.Bodies[i].Source(),
 			Triangles: st.Triangles,
 			Unknowns:  st.Edges,
-		})
+		}
+		if withMaterials {
+			rb.Material, rb.MaterialKind = j.Bodies[i].MaterialName(), material.KindPerfect.String()
+			if b.Material != nil {
+				rb.MaterialKind = material.KindOf(b.Material).String()
+			}
+		}
+		r.Bodies = append(r.Bodies, rb)
+	}
+	if withMaterials {
+		r.Materials = j.MaterialSummary()
+		r.ZeroFrequency = j.ZeroFrequency()
+		r.PFALaw = "the Lifshitz energy per area of the two facing materials"
+		if j.Temperature > 0 {
+			r.PFALaw += fmt.Sprintf(" (the free energy at %g K)", j.Temperature)
+		}
+		r.PFALaw += " in place of Casimir's -π²ħc/(720 d³)"
+		if s.Substrate != nil {
+			r.PFALaw += "; the substrate is a perfect conductor"
+		}
+		if s.Plates != nil {
+			r.PFALaw += fmt.Sprintf("; tabulated as η(d) = E_Lifshitz/E_Casimir on a grid in ln d and interpolated (estimated error %.1g relative)", s.Plates.InterpolationError)
+		}
 	}
 	return r
 }
@@ -256,6 +322,9 @@ func point(s *job.Scene, p scatter.Point, forces bool) Point {
 	}
 	for k, smp := range p.Samples {
 		q.Samples[k] = Sample{KappaPerUnit: Float(smp.Kappa), Integrand: Float(smp.Value)}
+	}
+	for _, r := range p.Ranks {
+		q.BlockRanks = append(q.BlockRanks, BlockRank{Rows: r.Rows, Cols: r.Cols, Rank: r.Rank, Compressed: r.Compressed, Dense: r.Dense})
 	}
 	angles := j.Sweep.Kind() == job.ByAngles
 	if angles {

@@ -44,7 +44,22 @@ func WriteTable(w io.Writer, r *Result) error {
 			return err
 		}
 	}
-	if _, err := fmt.Fprintf(w, "\n%s\n", wrap(Notice, 78)); err != nil {
+	if r.Materials != "" {
+		text := "Materials: " + r.Materials
+		if r.ZeroFrequency != "" {
+			text += "; at T > 0 " + r.ZeroFrequency
+		}
+		text += "."
+		text += " PFA: " + r.PFALaw + "."
+		if _, err := fmt.Fprintf(w, "\n%s\n", wrap(text, 78)); err != nil {
+			return err
+		}
+	}
+	notice := r.Notice
+	if notice == "" {
+		notice = Notice
+	}
+	if _, err := fmt.Fprintf(w, "\n%s\n", wrap(notice, 78)); err != nil {
 		return err
 	}
 	if st := r.Sticking; st != nil {

@@ -1,0 +1,73 @@
+package scatter
+
+import (
+	"context"
+	"testing"
+	"time"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// BenchmarkSweep compares a 20-point gap sweep with a single point (DESIGN
+// §10, issue 6: the sweep should cost at most 3 times the point), energy and
+// force, for two 1280-triangle spheres (1920 unknowns each) with gaps from
+// 0.5 to 2 radii at accuracy 1e-3. It reports the unknowns per body, the
+// seconds of the single point and of the sweep, the seconds per sweep point,
+// the ratio sweep/single, the largest rank of the interaction block and the
+// share of the sweep's evaluations that fell back to a dense block. It
+// takes many minutes: run it alone with -benchtime 1x.
+func BenchmarkSweep(b *testing.B) {
+	benchSweep(b, 8, true)
+}
+
+// BenchmarkSweepSmall is BenchmarkSweep on 500-triangle spheres (750
+// unknowns each), for a quicker look.
+func BenchmarkSweepSmall(b *testing.B) {
+	benchSweep(b, 5, true)
+}
+
+// BenchmarkSweepSmallEnergy is BenchmarkSweepSmall without forces.
+func BenchmarkSweepSmallEnergy(b *testing.B) {
+	benchSweep(b, 5, false)
+}
+
+func benchSweep(b *testing.B, level int, forces bool) {
+	bodies := pairScene(b, level, 2.5) // gap 0.5 at offset 0
+	var offs []r3.Vec
+	for i := 0; i < 20; i++ {
+		offs = append(offs, r3.Vec{Z: 1.5 * float64(i) / 19})
+	}
+	set := Settings{Accuracy: 1e-3, Forces: forces}
+	ctx := context.Background()
+	n := float64(3 * len(bodies[0].Mesh.Triangles) / 2)
+	for i := 0; i < b.N; i++ {
+		t0 := time.Now()
+		one := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: offs[9:10], Centre: r3.Vec{Z: 2.5}}
+		if _, err := Energies(ctx, bodies, one, set); err != nil {
+			b.Fatal(err)
+		}
+		single := time.Since(t0).Seconds()
+		t0 = time.Now()
+		all := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: offs, Centre: r3.Vec{Z: 2.5}}
+		pts, err := Energies(ctx, bodies, all, set)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sweep := time.Since(t0).Seconds()
+		rank, dense, evals := 0, 0, 0
+		for _, p := range pts {
+			for _, r := range p.Ranks {
+				rank = max(rank, r.Rank)
+				dense += r.Dense
+				evals += r.Dense + r.Compressed
+			}
+		}
+		b.ReportMetric(float64(dense)/float64(max(evals, 1)), "dense-share")
+		b.ReportMetric(n, "unknowns/body")
+		b.ReportMetric(single, "s/single")
+		b.ReportMetric(sweep, "s/sweep")
+		b.ReportMetric(sweep/float64(len(offs)), "s/point")
+		b.ReportMetric(sweep/single, "sweep/single")
+		b.ReportMetric(float64(rank), "max-rank")
+	}
+}

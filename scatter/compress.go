@@ -1,0 +1,361 @@
+package scatter
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/fluctus/fluctus/bem"
+)
+
+// compression says whether and how tightly interaction blocks are
+// compressed (DESIGN §10). The zero value keeps every block dense.
+type compression struct {
+	on bool
+	// tol is the relative Frobenius error allowed in a compressed block,
+	// ‖M_ij - U Vᵀ‖_F ≤ tol ‖M_ij‖_F.
+	tol float64
+}
+
+// blockTolerance ties the block tolerance to the requested accuracy. For
+// the two-body integrand f = ln det(I - KᵀK), K = L_i^-1 M_ij L_j^-T, a
+// relative block error ε changes f to first order by
+//
+//	δf = -2 Tr[(I - KᵀK)^-1 Kᵀ δK],  |δf| ≤ 2 ‖(I - KᵀK)^-1‖ ‖K‖_F ‖δK‖_F,
+//
+// and for separated bodies f ≈ -‖K‖_F², so |δf|/|f| ≈ 2ε (the factor
+// ‖(I - KᵀK)^-1‖ stays near 1 wherever compression is used: it grows only as
+// the bodies touch, where the rank test falls back to dense). The integrand
+// keeps one sign, so the energy's relative error is bounded by the largest
+// relative integrand error. ε = accuracy/10 keeps that at a fifth of the
+// target of the frequency integral.
+//
+// The whitening weighs the block's error in another norm than its Frobenius
+// norm, and at small κ it amplifies it: M = κA + B/κ is dominated by the
+// charge term B/κ, while the divergence-free (loop) currents couple through
+// κA only, a part smaller by about (κa)² for currents on the scale a of a
+// body. An error ε‖M‖ then becomes an error ε/(κa)² relative to the loop
+// part, which the whitening brings to unit size (measured: the integrand's
+// error grows as 1/κ² below κa ≈ 1). blockTolerance(accuracy)·min(1, (κa)²),
+// with a the largest bounding-box diagonal of the two bodies, removes that
+// growth (scaledTolerance; TestCompressedIntegrand measures the result).
+func blockTolerance(accuracy float64) float64 { return accuracy / 10 }
+
+// scaledTolerance is the block tolerance at wavenumber κ for bodies of size
+// a (L0): tol·min(1, (κa)²), see blockTolerance.
+func scaledTolerance(tol, kappa, a float64) float64 {
+	return tol * math.Min(1, kappa*a*kappa*a)
+}
+
+// newCompression returns the compression of a run with the given settings.
+func newCompression(set Settings) compression {
+	return compression{on: !set.Dense, tol: blockTolerance(set.Accuracy)}
+}
+
+// maxRankFraction bounds the rank of a compressed block as a fraction of the
+// smaller dimension. An ACA step assembles one row and one column (2T pair
+// integrals each for T panels per body, against T² for the whole block) and
+// the reduction costs O(N² r) against O(N³): beyond N/4 the dense path is
+// about as fast and the compression is given up.
+const maxRankFraction = 4
+
+// contactFraction: bodies whose bounding boxes are closer than this fraction
+// of the smaller box's diagonal are treated as close, and their block stays
+// dense without trying a compression that would fail (the rank grows as the
+// gap closes).
+const contactFraction = 1.0 / 16
+
+// lowRank is a block approximated as M ≈ U Vᵀ, with U (m×r) and V (n×r)
+// row major. After recompression V has orthonormal columns.
+type lowRank struct {
+	u, v blas64.General
+}
+
+func (lr *lowRank) rank() int { return lr.u.Cols }
+
+// compressCross approximates the interaction block between surfaces a
+// (rows) and b (columns) at wavenumber κ (that of op) to the relative
+// tolerance scaledTolerance(tol, κ, size) by adaptive cross approximation
+// with partial pivoting, then trims the rank by a QR + SVD recompression.
+// It reports false, with no error, when the block is not worth compressing:
+// the surfaces are close, or the rank would exceed
+// min(m, n)/maxRankFraction.
+func (sys *system) compressCross(ctx context.Context, op bem.Operator, kappa float64, a, b *bem.Surface, tol float64) (*lowRank, bool, error) {
+	close, size := surfacesClose(a, b)
+	if close {
+		return nil, false, nil
+	}
+	tol = scaledTolerance(tol, kappa, size)
+	maxRank := min(a.Len(), b.Len()) / maxRankFraction
+	u, v, ok, err := sys.aca(ctx, op, a, b, tol/3, maxRank)
+	if err != nil || !ok {
+		return nil, false, err
+	}
+	lr, err := recompress(u, v, a.Len(), b.Len(), tol/2)
+	if err != nil {
+		return nil, false, err
+	}
+	return lr, true, nil
+}
+
+// surfacesClose reports whether the bounding boxes of a and b are closer
+// than contactFraction of the smaller box's diagonal, and returns the larger
+// diagonal (L0).
+func surfacesClose(a, b *bem.Surface) (bool, float64) {
+	la, ha := bounds(a)
+	lb, hb := bounds(b)
+	gap := r3.Vec{
+		X: math.Max(0, math.Max(la.X-hb.X, lb.X-ha.X)),
+		Y: math.Max(0, math.Max(la.Y-hb.Y, lb.Y-ha.Y)),
+		Z: math.Max(0, math.Max(la.Z-hb.Z, lb.Z-ha.Z)),
+	}
+	da, db := r3.Norm(r3.Sub(ha, la)), r3.Norm(r3.Sub(hb, lb))
+	return r3.Norm(gap) < contactFraction*math.Min(da, db), math.Max(da, db)
+}
+
+func bounds(s *bem.Surface) (lo, hi r3.Vec) {
+	lo = r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
+	hi = r3.Scale(-1, lo)
+	for i := range s.Panels {
+		for _, v := range s.Panels[i].V {
+			lo = r3.Vec{X: math.Min(lo.X, v.X), Y: math.Min(lo.Y, v.Y), Z: math.Min(lo.Z, v.Z)}
+			hi = r3.Vec{X: math.Max(hi.X, v.X), Y: math.Max(hi.Y, v.Y), Z: math.Max(hi.Z, v.Z)}
+		}
+	}
+	return lo, hi
+}
+
+// aca is adaptive cross approximation with partial pivoting (Bebendorf,
+// Numer. Math. 86, 2000): M ≈ Σ_k u_k v_kᵀ, built from one row and one
+// column of the residual per step, the next row at the largest entry of the
+// last column. It stops when the last term is below tol of the
+// approximation's Frobenius norm (updated exactly from the terms) on two
+// steps in a row — one small step can be a pivot that missed the rest of the
+// block — and reports false when maxRank terms do not reach that.
+func (sys *system) aca(ctx context.Context, op bem.Operator, a, b *bem.Surface, tol float64, maxRank int) (us, vs [][]float64, ok bool, err error) {
+	m, n := a.Len(), b.Len()
+	usedRow := make([]bool, m)
+	usedCol := make([]bool, n)
+	row := make([]float64, n)
+	col := make([]float64, m)
+	norm2 := 0.0
+	small := 0
+	var terms []float64 // relative size of each term
+	i := 0
+	for len(us) < maxRank {
+		if err := ctx.Err(); err != nil {
+			return nil, nil, false, fmt.Errorf("scatter: compression: %w", err)
+		}
+		if err := sys.asm.CrossRows(ctx, row, op, a, b, []int{i}); err != nil {
+			return nil, nil, false, err
+		}
+		usedRow[i] = true
+		for l := range us {
+			axpy(-us[l][i], vs[l], row)
+		}
+		j := argmaxFree(row, usedCol)
+		if j < 0 || row[j] == 0 {
+			// The residual vanishes on this row: try the next free row.
+			if i = nextFree(usedRow); i < 0 {
+				return us, vs, true, nil
+			}
+			continue
+		}
+		v := make([]float64, n)
+		for k, x := range row {
+			v[k] = x / row[j]
+		}
+		if err := sys.asm.CrossColumns(ctx, col, op, a, b, []int{j}); err != nil {
+			return nil, nil, false, err
+		}
+		usedCol[j] = true
+		for l := range us {
+			axpy(-vs[l][j], us[l], col)
+		}
+		u := append([]float64(nil), col...)
+		// ‖S_k‖² = ‖S_{k-1}‖² + 2 Σ_l (u·u_l)(v_l·v) + ‖u‖²‖v‖².
+		uu, vv := dot(u, u), dot(v, v)
+		for l := range us {
+			norm2 += 2 * dot(u, us[l]) * dot(vs[l], v)
+		}
+		norm2 += uu * vv
+		us, vs = append(us, u), append(vs, v)
+		term := math.Sqrt(uu * vv / norm2)
+		terms = append(terms, term)
+		if term <= tol {
+			if small++; small == 2 {
+				return us, vs, true, nil
+			}
+		} else {
+			small = 0
+		}
+		if hopeless(terms, tol, maxRank) {
+			return nil, nil, false, nil
+		}
+		if i = argmaxFree(u, usedRow); i < 0 {
+			return us, vs, true, nil
+		}
+	}
+	return nil, nil, false, nil
+}
+
+// hopeless reports whether the relative term sizes of an ACA so far (at
+// least 16 terms) predict that tol is out of reach within maxRank terms. The
+// terms of a block that is numerically low rank fall roughly geometrically;
+// the rate is taken between the largest of the last four terms and the
+// largest of four terms half as many steps back (maxima smooth the
+// pivoting's noise), and the block is given up when that rate needs more
+// than maxRank terms in all — the work of the remaining steps is saved, which
+// matters for bodies close enough that the rank is high but not so close
+// that surfacesClose catches them.
+func hopeless(terms []float64, tol float64, maxRank int) bool {
+	k := len(terms)
+	if k < 16 {
+		return false
+	}
+	peak := func(end int) float64 {
+		m := 0.0
+		for _, t := range terms[end-4 : end] {
+			m = math.Max(m, t)
+		}
+		return m
+	}
+	now, then := peak(k), peak(k/2)
+	if !(now > tol) {
+		return false
+	}
+	if !(now < then) {
+		return k >= 32 // no decay at all over many steps
+	}
+	rate := math.Log(now/then) / float64(k-k/2) // < 0
+	need := float64(k) + math.Log(tol/now)/rate
+	return need > 1.5*float64(maxRank) // allow the rate to improve
+}
+
+// recompress turns Σ_k u_k v_kᵀ (vectors of lengths m and n) into the
+// shortest U Vᵀ that keeps the dropped singular values below tol of the
+// Frobenius norm: thin QR of both factors, Qu Ru Rvᵀ Qvᵀ, SVD of the small
+// core Ru Rvᵀ = W Σ Zᵀ, U = Qu W Σ and V = Qv Z truncated.
+func recompress(us, vs [][]float64, m, n int, tol float64) (*lowRank, error) {
+	r := len(us)
+	if r == 0 {
+		return &lowRank{u: blas64.General{Rows: m, Stride: 1}, v: blas64.General{Rows: n, Stride: 1}}, nil
+	}
+	qu, ru := thinQR(us, m)
+	qv, rv := thinQR(vs, n)
+	core := mat.NewDense(r, r, nil)
+	core.Mul(mat.NewDense(r, r, ru), mat.NewDense(r, r, rv).T())
+	var svd mat.SVD
+	if !svd.Factorize(core, mat.SVDThin) {
+		return nil, fmt.Errorf("scatter: compression: SVD of the %d×%d core did not converge", r, r)
+	}
+	sv := svd.Values(nil)
+	total := 0.0
+	for _, s := range sv {
+		total += s * s
+	}
+	keep, tail := r, 0.0
+	for keep > 1 && tail+sv[keep-1]*sv[keep-1] <= tol*tol*total {
+		tail += sv[keep-1] * sv[keep-1]
+		keep--
+	}
+	var w, z mat.Dense
+	svd.UTo(&w)
+	svd.VTo(&z)
+	ws := mat.NewDense(r, keep, nil)
+	for i := 0; i < r; i++ {
+		for k := 0; k < keep; k++ {
+			ws.Set(i, k, w.At(i, k)*sv[k])
+		}
+	}
+	zk := z.Slice(0, r, 0, keep)
+	lr := &lowRank{
+		u: blas64.General{Rows: m, Cols: keep, Stride: keep, Data: make([]float64, m*keep)},
+		v: blas64.General{Rows: n, Cols: keep, Stride: keep, Data: make([]float64, n*keep)},
+	}
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, qu, ws.RawMatrix(), 0, lr.u)
+	zr := mat.DenseCopyOf(zk).RawMatrix()
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, qv, zr, 0, lr.v)
+	return lr, nil
+}
+
+// thinQR returns the thin QR factors of the m×r matrix whose columns are
+// cols: Q (m×r, orthonormal columns) and R (r×r upper triangular, row
+// major).
+func thinQR(cols [][]float64, m int) (blas64.General, []float64) {
+	r := len(cols)
+	a := blas64.General{Rows: m, Cols: r, Stride: r, Data: make([]float64, m*r)}
+	for k, c := range cols {
+		for i, x := range c {
+			a.Data[i*r+k] = x
+		}
+	}
+	rr, q := qrInPlace(a)
+	return q, rr
+}
+
+// qrInPlace factors the m×r matrix a (m ≥ r) as Q R with LAPACK's
+// Householder QR and returns R (r×r, row major) and Q (a overwritten).
+func qrInPlace(a blas64.General) ([]float64, blas64.General) {
+	r := a.Cols
+	tau := make([]float64, r)
+	work := make([]float64, 1)
+	lapack64.Geqrf(a, tau, work, -1)
+	work = make([]float64, int(work[0]))
+	lapack64.Geqrf(a, tau, work, len(work))
+	rr := make([]float64, r*r)
+	for i := 0; i < r; i++ {
+		copy(rr[i*r+i:i*r+r], a.Data[i*a.Stride+i:i*a.Stride+r])
+	}
+	work = make([]float64, 1)
+	lapack64.Orgqr(a, tau, work, -1)
+	work = make([]float64, int(work[0]))
+	lapack64.Orgqr(a, tau, work, len(work))
+	return rr, a
+}
+
+func dot(x, y []float64) float64 {
+	s := 0.0
+	for i, v := range x {
+		s += v * y[i]
+	}
+	return s
+}
+
+// axpy sets y += alpha x.
+func axpy(alpha float64, x, y []float64) {
+	if alpha == 0 {
+		return
+	}
+	for i, v := range x {
+		y[i] += alpha * v
+	}
+}
+
+// argmaxFree returns the index of the largest |x_i| with used[i] false, or
+// -1 when every index is used.
+func argmaxFree(x []float64, used []bool) int {
+	best, at := -1.0, -1
+	for i, v := range x {
+		if !used[i] && math.Abs(v) > best {
+			best, at = math.Abs(v), i
+		}
+	}
+	return at
+}
+
+// nextFree returns the first index not used, or -1.
+func nextFree(used []bool) int {
+	for i, u := range used {
+		if !u {
+			return i
+		}
+	}
+	return -1
+}
