@@ -102,6 +102,10 @@ func allCases() []Case {
 		sphereReference(multipole.SphereSphere, 0.5, 10, 0.004, true),
 		sphereReference(multipole.SphereSphere, 0.25, 14, 0.005, true),
 		sphereReference(multipole.SpherePlane, 0.5, 10, 0.002, true),
+		quick(lifshitzPerfectLimit(100e-9)),
+		quick(lifshitzPlasmaFactor(false)),
+		quick(lifshitzPlasmaFactor(true)),
+		quick(lifshitzHighTemperature()),
 	}
 }
 
