@@ -17,27 +17,40 @@ import (
 // share of the sweep's evaluations that fell back to a dense block. It
 // takes many minutes: run it alone with -benchtime 1x.
 func BenchmarkSweep(b *testing.B) {
-	benchSweep(b, 8, true)
+	benchSweep(b, 8, true, false)
 }
 
 // BenchmarkSweepSmall is BenchmarkSweep on 500-triangle spheres (750
 // unknowns each), for a quicker look.
 func BenchmarkSweepSmall(b *testing.B) {
-	benchSweep(b, 5, true)
+	benchSweep(b, 5, true, false)
+}
+
+// BenchmarkSweepSmallDense is BenchmarkSweepSmall with every interaction
+// block dense (Settings.Dense), the reference for the compression's gain.
+func BenchmarkSweepSmallDense(b *testing.B) {
+	benchSweep(b, 5, true, true)
 }
 
 // BenchmarkSweepSmallEnergy is BenchmarkSweepSmall without forces.
 func BenchmarkSweepSmallEnergy(b *testing.B) {
-	benchSweep(b, 5, false)
+	benchSweep(b, 5, false, false)
 }
 
-func benchSweep(b *testing.B, level int, forces bool) {
+// BenchmarkSweepSmallEnergyDense is BenchmarkSweepSmallEnergy with every
+// interaction block dense (Settings.Dense), the reference for the
+// compression's gain.
+func BenchmarkSweepSmallEnergyDense(b *testing.B) {
+	benchSweep(b, 5, false, true)
+}
+
+func benchSweep(b *testing.B, level int, forces, dense bool) {
 	bodies := pairScene(b, level, 2.5) // gap 0.5 at offset 0
 	var offs []r3.Vec
 	for i := 0; i < 20; i++ {
 		offs = append(offs, r3.Vec{Z: 1.5 * float64(i) / 19})
 	}
-	set := Settings{Accuracy: 1e-3, Forces: forces}
+	set := Settings{Accuracy: 1e-3, Forces: forces, Dense: dense}
 	ctx := context.Background()
 	n := float64(3 * len(bodies[0].Mesh.Triangles) / 2)
 	for i := 0; i < b.N; i++ {
@@ -54,15 +67,15 @@ func benchSweep(b *testing.B, level int, forces bool) {
 			b.Fatal(err)
 		}
 		sweep := time.Since(t0).Seconds()
-		rank, dense, evals := 0, 0, 0
+		rank, nDense, evals := 0, 0, 0
 		for _, p := range pts {
 			for _, r := range p.Ranks {
 				rank = max(rank, r.Rank)
-				dense += r.Dense
+				nDense += r.Dense
 				evals += r.Dense + r.Compressed
 			}
 		}
-		b.ReportMetric(float64(dense)/float64(max(evals, 1)), "dense-share")
+		b.ReportMetric(float64(nDense)/float64(max(evals, 1)), "dense-share")
 		b.ReportMetric(n, "unknowns/body")
 		b.ReportMetric(single, "s/single")
 		b.ReportMetric(sweep, "s/sweep")

@@ -31,7 +31,7 @@ func TestCompressedBlock(t *testing.T) {
 		}
 		a, b := sys.surf[0], sys.surf[1].Translate(r3.Vec{})
 		const tol = 1e-4
-		lr, ok, err := sys.compressCross(ctx, sf.op, 1, a, b, tol) // κa = 1 in the scaling: tol itself
+		lr, ok, err := sys.compressCross(ctx, sf.op, 1, a, b, tol) // κ = 1 passed: κa > 1, so tol is not scaled down
 		if err != nil || !ok {
 			t.Fatalf("κ=%g: not compressed (err %v)", kappa, err)
 		}
