@@ -6,14 +6,13 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 
+	"github.com/fluctus/fluctus/cmd/internal/atomicfile"
 	"github.com/fluctus/fluctus/scatter"
 	"github.com/fluctus/fluctus/scatter/lifshitz"
 	"github.com/fluctus/fluctus/scatter/material"
@@ -267,35 +266,21 @@ func writePlates(w io.Writer, ma, mb material.Model, temp float64, unit scatter.
 
 // writePlatesCSV writes the table as CSV (gap in m) atomically.
 func writePlatesCSV(path string, temp float64, rows []platesRow) error {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	tmp := f.Name()
-	cw := csv.NewWriter(f)
-	cw.Write([]string{"gap_m", "energy_J_per_m2", "pressure_Pa", "eta_E", "eta_P",
-		"temperature_K", "free_energy_J_per_m2", "pressure_T_Pa", "eta_E_T", "eta_P_T"})
-	g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
-	for _, r := range rows {
-		rec := []string{g(r.gap), g(r.zero.Energy), g(r.zero.Pressure), g(r.zero.EnergyRatio), g(r.zero.PressureRatio), g(temp)}
-		if temp > 0 {
-			rec = append(rec, g(r.therm.Energy), g(r.therm.Pressure), g(r.therm.EnergyRatio), g(r.therm.PressureRatio))
-		} else {
-			rec = append(rec, "", "", "", "")
+	return atomicfile.Write(path, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		cw.Write([]string{"gap_m", "energy_J_per_m2", "pressure_Pa", "eta_E", "eta_P",
+			"temperature_K", "free_energy_J_per_m2", "pressure_T_Pa", "eta_E_T", "eta_P_T"})
+		g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+		for _, r := range rows {
+			rec := []string{g(r.gap), g(r.zero.Energy), g(r.zero.Pressure), g(r.zero.EnergyRatio), g(r.zero.PressureRatio), g(temp)}
+			if temp > 0 {
+				rec = append(rec, g(r.therm.Energy), g(r.therm.Pressure), g(r.therm.EnergyRatio), g(r.therm.PressureRatio))
+			} else {
+				rec = append(rec, "", "", "", "")
+			}
+			cw.Write(rec)
 		}
-		cw.Write(rec)
-	}
-	cw.Flush()
-	err = cw.Error()
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(tmp, path)
-	}
-	if err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
+		cw.Flush()
+		return cw.Error()
+	})
 }

@@ -2,10 +2,10 @@ package plot
 
 import (
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
+	"github.com/fluctus/fluctus/cmd/internal/atomicfile"
 	"gonum.org/v1/plot/plotter"
 )
 
@@ -61,14 +61,5 @@ func WriteFigure(f *Figure, path string) error {
 	if err != nil {
 		return err
 	}
-	dir := filepath.Dir(path)
-	tmp, err := writeTemp(dir, filepath.Base(path), data)
-	if err != nil {
-		return err
-	}
-	if err := os.Rename(tmp, path); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
+	return atomicfile.WriteBytes(path, data)
 }

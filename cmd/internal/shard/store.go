@@ -13,6 +13,7 @@ import (
 	"strings"
 	"sync"
 
+	"github.com/fluctus/fluctus/cmd/internal/atomicfile"
 	"github.com/fluctus/fluctus/scatter"
 )
 
@@ -323,33 +324,7 @@ func writeJSON(dir, name string, v any) error {
 	if err != nil {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
-	f, err := os.CreateTemp(dir, "."+name+".*.tmp")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	tmp := f.Name()
-	_, err = f.Write(append(data, '\n'))
-	if err == nil {
-		err = f.Chmod(0o644)
-	}
-	if err == nil {
-		err = f.Sync()
-	}
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(tmp, path)
-	}
-	if err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if d, err := os.Open(dir); err == nil {
-		d.Sync()
-		d.Close()
-	}
-	return nil
+	return atomicfile.WriteBytes(path, append(data, '\n'))
 }
 
 // oneBased returns the points numbered from 1.
