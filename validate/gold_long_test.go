@@ -14,88 +14,85 @@ import (
 	"github.com/fluctus/fluctus/scatter/material"
 )
 
-// TestGoldSphereOverSubstrateApproachesLifshitzPFA (long suite): a gold
-// sphere (Drude model, ħω_p = 9 eV, ħγ = 35 meV) of radius 1 µm over the
-// perfectly conducting substrate at d/R = 0.4 and 0.2, graded meshes
-// (h = d/2 at the gap). The PFA baseline of the run uses the Lifshitz energy
-// per area of gold against a perfect mirror (Lifshitz 1956), so E/E_PFA
-// carries only the geometric correction, which vanishes as d/R → 0 (the
-// proximity-force theorem, Derjaguin 1934); for perfect conductors it is
-// 1 + θ d/R + ... with θ = 1/3 - 20/π² (Bimonte, Emig, Jaffe & Kardar
-// 2012), and for a real metal at these gaps of the same order. Checks:
-// E < 0; E/E_PFA below 1 by less than 15 % at both gaps; and closer to 1 at
-// d/R = 0.2 than at 0.4. The tolerance covers the mesh error (1-2 %,
-// TestSpherePlaneNear) and the higher-order geometric terms; the plasma
-// frequency sets δ = c/ω_p = 22 nm, so the material effect on E itself is
-// large (η ≈ 0.6-0.7 at these gaps) and the check is sharp against
-// comparing with the perfect-conductor PFA.
-func TestGoldSphereOverSubstrateApproachesLifshitzPFA(t *testing.T) {
+// Gold bodies against the Lifshitz PFA (long suite). Gold is the Drude model
+// with ħω_p = 9 eV, ħγ = 35 meV (δ = c/ω_p = 22 nm); lengths are in µm.
+// The PFA baseline of a run with materials uses the Lifshitz energy per
+// area of the facing materials (Lifshitz 1956), so E/E_PFA carries only the
+// geometric correction, which vanishes as d/R → 0 (Derjaguin 1934) and
+// which, at these gaps (d ≥ 9δ), hardly depends on the material. The checks,
+// at d/R = 0.4 and 0.2 on graded meshes (h = d/2 at the gap, 0.4 R far):
+//   - gold attracts, less than perfect conductors on the same mesh;
+//   - E/E_PFA of gold (Lifshitz law) is within 0.03 of E/E_PFA of perfect
+//     conductors (Casimir's law) on the same mesh — measured 0.005 and 0.007
+//     at d/R = 0.4; the tolerance leaves room for the different weight of
+//     the near and far parts of the surface in the two frequency ranges;
+//   - |1 - E/E_PFA| of gold shrinks as d/R falls.
+
+// goldAgainstPerfect runs the scene with every body gold and with every body
+// a perfect conductor, and returns both E/E_PFA ratios and energies.
+func goldAgainstPerfect(t *testing.T, bodies []scatter.Body, sweep scatter.Sweep, plane *scatter.Plane) (rGold, rPerfect, eGold, ePerfect float64) {
+	t.Helper()
 	gold, err := material.Named("gold-drude")
 	if err != nil {
 		t.Fatal(err)
 	}
-	const R = 1.0
-	plane := &scatter.Plane{Normal: r3.Vec{Z: 1}}
-	var dev []float64
-	for _, d := range []float64{0.4, 0.2} {
-		m := gradedSphereOverPlane(t, R, d, d/2, 0.4)
-		start := time.Now()
-		pts, err := scatter.Energies(context.Background(), []scatter.Body{{Name: "gold", Mesh: m, Material: gold}},
-			scatter.Sweep{Body: 0, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}},
-			scatter.Settings{Accuracy: 3e-3, Substrate: plane, Length: 1e-6})
+	run := func(m material.Model) scatter.Point {
+		bs := append([]scatter.Body(nil), bodies...)
+		for i := range bs {
+			bs[i].Material = m
+		}
+		pts, err := scatter.Energies(context.Background(), bs, sweep, scatter.Settings{Accuracy: 3e-3, Substrate: plane, Length: 1e-6})
 		if err != nil {
 			t.Fatal(err)
 		}
-		p := pts[0]
-		r := p.Energy / p.PFA.Mean
-		perfectPFA := SpherePlanePFA(R, d)
-		t.Logf("d/R=%g (%d triangles, %d frequencies, %v): E = %.5g, Lifshitz PFA %.5g (E/PFA %.4f), perfect-conductor PFA %.5g (η = %.3f)",
-			d, len(m.Triangles), len(p.Samples), time.Since(start).Round(time.Second), p.Energy, p.PFA.Mean, r, perfectPFA, p.PFA.Mean/perfectPFA)
-		if !(p.Energy < 0) || !(r > 0.85 && r < 1) {
-			t.Errorf("d/R=%g: E = %.5g, E/E_PFA = %.4f: want negative and in (0.85, 1)", d, p.Energy, r)
-		}
-		dev = append(dev, math.Abs(1-r))
+		return pts[0]
 	}
-	if !(dev[1] < dev[0]) {
-		t.Errorf("|1 - E/E_PFA| = %.4f at d/R = 0.2, %.4f at 0.4: want it to shrink as d/R falls", dev[1], dev[0])
+	g, p := run(gold), run(nil)
+	return g.Energy / g.PFA.Mean, p.Energy / p.PFA.Mean, g.Energy, p.Energy
+}
+
+func checkGold(t *testing.T, what string, gaps []float64, scene func(d float64) ([]scatter.Body, scatter.Sweep, *scatter.Plane)) {
+	var dev []float64
+	for _, d := range gaps {
+		bodies, sweep, plane := scene(d)
+		start := time.Now()
+		rg, rp, eg, ep := goldAgainstPerfect(t, bodies, sweep, plane)
+		t.Logf("%s, d/R=%g (%d triangles per body, %v): gold E = %.5g, E/E_PFA = %.4f; perfect E = %.5g, E/E_PFA = %.4f",
+			what, d, len(bodies[0].Mesh.Triangles), time.Since(start).Round(time.Second), eg, rg, ep, rp)
+		if !(eg < 0 && eg > ep) {
+			t.Errorf("%s, d/R=%g: gold E = %.5g, perfect %.5g: want an attraction weaker than the perfect one", what, d, eg, ep)
+		}
+		if math.Abs(rg-rp) > 0.03 {
+			t.Errorf("%s, d/R=%g: E/E_PFA %.4f for gold, %.4f for perfect conductors: want within 0.03", what, d, rg, rp)
+		}
+		dev = append(dev, math.Abs(1-rg))
+	}
+	for i := 1; i < len(dev); i++ {
+		if !(dev[i] < dev[i-1]) {
+			t.Errorf("%s: |1 - E/E_PFA| = %.4f at d/R = %g, %.4f at %g: want it to shrink as d/R falls", what, dev[i], gaps[i], dev[i-1], gaps[i-1])
+		}
 	}
 }
 
-// TestGoldSpheresApproachLifshitzPFA (long suite): two gold spheres (Drude,
-// as above) of radius 1 µm at d/R = 0.4 and 0.2, each meshed finely where it
-// faces the other (h = d/2 there, 0.4 R on the far side). The run's PFA uses
-// the Lifshitz energy per area of gold against gold, so E/E_PFA carries the
-// geometric correction alone, which vanishes as d/R → 0 (Derjaguin 1934).
-// Checks as for the sphere over the substrate: E < 0, E/E_PFA in
-// (0.85, 1), and closer to 1 at the smaller gap.
-func TestGoldSpheresApproachLifshitzPFA(t *testing.T) {
-	gold, err := material.Named("gold-drude")
-	if err != nil {
-		t.Fatal(err)
-	}
-	const R = 1.0
-	var dev []float64
-	for _, d := range []float64{0.4, 0.2} {
-		// The lower sphere is the mirror image of the upper one in z = 0.
-		up := gradedSphereOverPlane(t, R, d/2, d/2, 0.4)
+// TestGoldSphereOverSubstrate: a gold sphere of radius 1 µm over the
+// perfectly conducting substrate.
+func TestGoldSphereOverSubstrate(t *testing.T) {
+	checkGold(t, "gold sphere over the substrate", []float64{0.4, 0.2}, func(d float64) ([]scatter.Body, scatter.Sweep, *scatter.Plane) {
+		m := gradedSphereOverPlane(t, 1, d, d/2, 0.4)
+		return []scatter.Body{{Name: "sphere", Mesh: m}}, scatter.Sweep{Body: 0, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}},
+			&scatter.Plane{Normal: r3.Vec{Z: 1}}
+	})
+}
+
+// TestGoldSpheres: two gold spheres of radius 1 µm, each meshed finely
+// where it faces the other (the lower one the mirror image of the upper).
+// For two spheres the PFA is a poorer estimate than over a plane at the same
+// d/R (the effective radius is R/2): E/E_PFA is about 0.5 at d/R = 0.4.
+func TestGoldSpheres(t *testing.T) {
+	checkGold(t, "two gold spheres", []float64{0.4, 0.2}, func(d float64) ([]scatter.Body, scatter.Sweep, *scatter.Plane) {
+		up := gradedSphereOverPlane(t, 1, d/2, d/2, 0.4)
 		down := up.Mirror(r3.Vec{}, r3.Vec{Z: 1})
-		start := time.Now()
-		pts, err := scatter.Energies(context.Background(), []scatter.Body{{Name: "lower", Mesh: down, Material: gold}, {Name: "upper", Mesh: up, Material: gold}},
-			scatter.Sweep{Body: 1, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}},
-			scatter.Settings{Accuracy: 3e-3, Length: 1e-6})
-		if err != nil {
-			t.Fatal(err)
-		}
-		p := pts[0]
-		r := p.Energy / p.PFA.Mean
-		t.Logf("d/R=%g (%d triangles each, %d frequencies, %v): E = %.5g, Lifshitz PFA %.5g (E/PFA %.4f), perfect-conductor PFA %.5g",
-			d, len(up.Triangles), len(p.Samples), time.Since(start).Round(time.Second), p.Energy, p.PFA.Mean, r, SphereSpherePFA(R, R, d))
-		if !(p.Energy < 0) || !(r > 0.85 && r < 1) {
-			t.Errorf("d/R=%g: E = %.5g, E/E_PFA = %.4f: want negative and in (0.85, 1)", d, p.Energy, r)
-		}
-		dev = append(dev, math.Abs(1-r))
-	}
-	if !(dev[1] < dev[0]) {
-		t.Errorf("|1 - E/E_PFA| = %.4f at d/R = 0.2, %.4f at 0.4: want it to shrink as d/R falls", dev[1], dev[0])
-	}
+		return []scatter.Body{{Name: "lower", Mesh: down}, {Name: "upper", Mesh: up}},
+			scatter.Sweep{Body: 1, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}}, nil
+	})
 }
