@@ -485,6 +485,7 @@ func (a *app) sticking(ctx context.Context, j *job.Job, lv *level, res *report.R
 		return err
 	}
 	res.Add(scene, out.Added, report.AddedForSticking)
+	out.Report.Body = scene.Bodies[scene.Sweep.Body].Name
 	if sum := j.MaterialSummary(); sum != "" {
 		out.Report.Material = "bodies of the stated material models (" + sum + ")"
 	}

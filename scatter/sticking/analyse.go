@@ -77,6 +77,9 @@ type Report struct {
 	// or its slope (Curve.ErrorEstimate) at the sampled points the answer
 	// rests on: the equilibria, the pull-in point and the tangency.
 	InterpolationError float64 `json:"interpolation_error"`
+	// Body names the suspended body in the summary; empty says "the
+	// electrode".
+	Body string `json:"body,omitempty"`
 	// Material names the material model the load was computed with; empty
 	// means perfect conductors. Analyse leaves it empty for the caller to set;
 	// Summary uses it in the caveat.

@@ -70,6 +70,10 @@ func TestSummary(t *testing.T) {
 	if s := r.Summary(); !strings.Contains(s, "gold (Drude model) in vacuum") || strings.Contains(s, "perfect conductors") {
 		t.Errorf("summary does not name the material: %s", s)
 	}
+	r.Body = "paddle"
+	if s := r.Summary(); !strings.Contains(s, `body "paddle" is FREE`) || strings.Contains(s, "electrode") {
+		t.Errorf("summary does not name the body: %s", s)
+	}
 }
 
 func TestWithPrefix(t *testing.T) {

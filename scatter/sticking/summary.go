@@ -19,6 +19,10 @@ func (r Report) Summary() string {
 		fmt.Fprintf(&b, format, args...)
 	}
 	lo, hi := r.SampledRange[0], r.SampledRange[1]
+	body := "the electrode"
+	if r.Body != "" {
+		body = fmt.Sprintf("body %q", r.Body)
+	}
 
 	with := fmt.Sprintf("With k = %s and %s %s", u.stiff(r.Stiffness), u.rest, u.pos(r.Rest))
 	switch r.Verdict {
@@ -30,16 +34,16 @@ func (r Report) Summary() string {
 				break
 			}
 		}
-		say("%s the electrode is FREE: it settles at a stable equilibrium at %s, where the spring carries %s.", with, u.pos(r.Settled), u.load(e.Load))
+		say("%s %s is FREE: it settles at a stable equilibrium at %s, where the spring carries %s.", with, body, u.pos(r.Settled), u.load(e.Load))
 	case Sticks:
-		say("%s the electrode STICKS: there is no stable equilibrium between the rest position and %s, and the attraction outgrows the spring.", with, u.pos(lo))
+		say("%s %s STICKS: there is no stable equilibrium between the rest position and %s, and the attraction outgrows the spring.", with, body, u.pos(lo))
 		for _, e := range r.Equilibria {
 			if e.Degenerate {
 				say("It is exactly at the pull-in limit (a degenerate equilibrium at %s), which leaves no margin.", u.pos(e.X))
 			}
 		}
 	case Undetermined:
-		say("%s the sampled range cannot decide whether the electrode sticks: there is no equilibrium between the rest position and %s, but the spring is still stiffer than the attraction there.", with, u.pos(lo))
+		say("%s the sampled range cannot decide whether %s sticks: there is no equilibrium between the rest position and %s, but the spring is still stiffer than the attraction there.", with, body, u.pos(lo))
 		say("Continuing the lowest samples as a power law it would be %s;", strings.ToUpper(string(r.ExtrapolatedVerdict)))
 		if r.PullIn.Extrapolated {
 			fmt.Fprintf(&b, " compute the %s down to about %s to decide.", u.loadName, u.pos(0.9*r.PullIn.X))
