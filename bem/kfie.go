@@ -134,24 +134,10 @@ var kSideRules = [3]*Rule{sideGradedPower(8, 0, 4), sideGradedPower(8, 1, 4), si
 
 // sideGradedPower is SideGraded with the radial grading ξ = 1 - (1-u)^p.
 func sideGradedPower(n, a int, p float64) *Rule {
-	x := make([]float64, n)
-	w := make([]float64, n)
-	gaussLegendre(x, w, 0, 1)
-	r := &Rule{Name: fmt.Sprintf("side-graded %d (power %g) opposite %d", n, p, a), Degree: 1}
-	for i := 0; i < n; i++ {
-		xi, dxi := 1-math.Pow(1-x[i], p), p*math.Pow(1-x[i], p-1)
-		for j := 0; j < n; j++ {
-			v := x[j]
-			eta, deta := v*v*(3-2*v), 6*v*(1-v)
-			var b [3]float64
-			b[a] = 1 - xi
-			b[(a+1)%3] = xi * (1 - eta)
-			b[(a+2)%3] = xi * eta
-			r.Bary = append(r.Bary, b)
-			r.Weight = append(r.Weight, 2*w[i]*w[j]*xi*dxi*deta)
-		}
-	}
-	return r
+	name := fmt.Sprintf("side-graded %d (power %g) opposite %d", n, p, a)
+	return sideGradedRule(n, a, name, 1, func(u float64) (float64, float64) {
+		return 1 - math.Pow(1-u, p), p * math.Pow(1-u, p-1)
+	})
 }
 
 // kVertexRules are the outer rules of panels sharing only corner v: the
@@ -160,23 +146,8 @@ var kVertexRules = [3]*Rule{vertexGradedPower(7, 0, 3), vertexGradedPower(7, 1, 
 
 // vertexGradedPower is VertexGraded with the radial grading ρ = u^p.
 func vertexGradedPower(n, v int, p float64) *Rule {
-	x := make([]float64, n)
-	w := make([]float64, n)
-	gaussLegendre(x, w, 0, 1)
-	r := &Rule{Name: fmt.Sprintf("vertex-graded %d (power %g) at %d", n, p, v), Degree: 1}
-	for i := 0; i < n; i++ {
-		rho, drho := math.Pow(x[i], p), p*math.Pow(x[i], p-1)
-		for j := 0; j < n; j++ {
-			eta := x[j]
-			var b [3]float64
-			b[v] = 1 - rho
-			b[(v+1)%3] = rho * (1 - eta)
-			b[(v+2)%3] = rho * eta
-			r.Bary = append(r.Bary, b)
-			r.Weight = append(r.Weight, 2*w[i]*w[j]*rho*drho)
-		}
-	}
-	return r
+	name := fmt.Sprintf("vertex-graded %d (power %g) at %d", n, p, v)
+	return vertexGradedRule(n, v, name, 1, func(u float64) (float64, float64) { return math.Pow(u, p), p * math.Pow(u, p-1) })
 }
 
 // kCloseRule is the outer rule of K for pairs closer than kVeryClose panel
@@ -287,34 +258,15 @@ type gradIntegrand struct {
 }
 
 // graded integrates t exp(-κ|h|)[κ|h|φ - 1]/(R(R+|h|)) and exp(-κR)/R from
-// s0 to s1 (either order) on intervals growing from s0, as
-// edgeIntegrand.graded does.
+// s0 to s1 (either order) on the intervals of edgeIntervals.
 func (e *gradIntegrand) graded(s0, s1, scale, edge float64) (nc, pc float64) {
-	dir := 1.0
-	if s1 < s0 {
-		dir = -1
-	}
-	length := math.Abs(s1 - s0)
-	lo := 0.0
-	step := scale
-	if step < 1e-10*edge {
-		step = length
-	}
-	if e.kappa*step > 2 {
-		step = 2 / e.kappa
-	}
-	for lo < length {
-		hi := math.Min(length, lo+step)
-		if length-hi < step {
-			hi = length
-		}
-		a, b := s0+dir*lo, s0+dir*hi
-		half, mid := (b-a)/2, (b+a)/2
+	iv := newEdgeIntervals(s0, s1, scale, edge, e.kappa)
+	for half, mid, ok := iv.next(); ok; half, mid, ok = iv.next() {
 		for k, xk := range e.er.x {
 			sk := mid + half*xk
+			wk := e.er.w[k] * half
 			rho2 := e.t*e.t + sk*sk
 			r := math.Sqrt(rho2 + e.absH*e.absH)
-			wk := e.er.w[k] * half
 			dr := rho2 / (r + e.absH) // R - |h| without cancellation
 			z := e.kappa * dr
 			// exp(-κR) = exp(-κ|h|)(1 + em); beyond z = 0.3 the plain
@@ -335,8 +287,6 @@ func (e *gradIntegrand) graded(s0, s1, scale, edge float64) (nc, pc float64) {
 				nc += wk * e.t * f
 			}
 		}
-		lo = hi
-		step = 3 * hi
 	}
 	return nc, pc
 }

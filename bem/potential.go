@@ -90,30 +90,11 @@ type edgeIntegrand struct {
 	t           float64 // signed distance of ρ0 from the edge line
 }
 
-// graded integrates t F/ρ² and F from s0 to s1 (either order) with intervals
-// growing by a factor of four from s0, the first one of length `scale` (the
-// distance of x from the point s0); edge is the edge length.
+// graded integrates t F/ρ² and F from s0 to s1 (either order) on the
+// intervals of edgeIntervals.
 func (e *edgeIntegrand) graded(s0, s1, scale, edge float64) (sc, ve float64) {
-	dir := 1.0
-	if s1 < s0 {
-		dir = -1
-	}
-	length := math.Abs(s1 - s0)
-	lo := 0.0
-	step := scale
-	if step < 1e-10*edge {
-		step = length // on the edge itself: F is smooth on each side
-	}
-	if e.kappa*step > 2 {
-		step = 2 / e.kappa // F changes on the scale 1/κ
-	}
-	for lo < length {
-		hi := math.Min(length, lo+step)
-		if length-hi < step {
-			hi = length // avoid a sliver at the end
-		}
-		a, b := s0+dir*lo, s0+dir*hi
-		half, mid := (b-a)/2, (b+a)/2
+	iv := newEdgeIntervals(s0, s1, scale, edge, e.kappa)
+	for half, mid, ok := iv.next(); ok; half, mid, ok = iv.next() {
 		for k, xk := range e.er.x {
 			sk := mid + half*xk
 			rho2 := e.t*e.t + sk*sk
@@ -124,10 +105,46 @@ func (e *edgeIntegrand) graded(s0, s1, scale, edge float64) (sc, ve float64) {
 				sc += wk * e.t * f / rho2
 			}
 		}
-		lo = hi
-		step = 3 * hi
 	}
 	return sc, ve
+}
+
+// edgeIntervals walks from s0 to s1 (either order) on intervals growing by
+// a factor of four from s0, the first one of length scale (the distance of
+// x from the point s0), none longer than 2/κ at first (the integrands change
+// on the scale 1/κ).
+type edgeIntervals struct {
+	s0, dir, length, lo, step float64
+}
+
+// newEdgeIntervals starts the walk; edge is the edge length.
+func newEdgeIntervals(s0, s1, scale, edge, kappa float64) edgeIntervals {
+	iv := edgeIntervals{s0: s0, dir: 1, length: math.Abs(s1 - s0), step: scale}
+	if s1 < s0 {
+		iv.dir = -1
+	}
+	if iv.step < 1e-10*edge {
+		iv.step = iv.length // on the edge itself: the integrands are smooth on each side
+	}
+	if kappa*iv.step > 2 {
+		iv.step = 2 / kappa
+	}
+	return iv
+}
+
+// next returns the half-length and midpoint of the next interval, or ok =
+// false at the end.
+func (iv *edgeIntervals) next() (half, mid float64, ok bool) {
+	if !(iv.lo < iv.length) {
+		return 0, 0, false
+	}
+	hi := math.Min(iv.length, iv.lo+iv.step)
+	if iv.length-hi < iv.step {
+		hi = iv.length // avoid a sliver at the end
+	}
+	a, b := iv.s0+iv.dir*iv.lo, iv.s0+iv.dir*hi
+	iv.lo, iv.step = hi, 3*hi
+	return (b - a) / 2, (b + a) / 2, true
 }
 
 // defaultEdgePoints is the Gauss–Legendre order on each edge interval.

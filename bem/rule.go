@@ -142,23 +142,8 @@ func VertexGraded(n, v int) (*Rule, error) {
 	if n < 2 || n > 32 || v < 0 || v > 2 {
 		return nil, fmt.Errorf("bem: vertex-graded rule order %d at corner %d out of range", n, v)
 	}
-	x := make([]float64, n)
-	w := make([]float64, n)
-	gaussLegendre(x, w, 0, 1)
-	r := &Rule{Name: fmt.Sprintf("vertex-graded %d at %d", n, v), Degree: n - 2}
-	for i := 0; i < n; i++ {
-		rho, drho := x[i]*x[i], 2*x[i]
-		for j := 0; j < n; j++ {
-			eta := x[j]
-			var b [3]float64
-			b[v] = 1 - rho
-			b[(v+1)%3] = rho * (1 - eta)
-			b[(v+2)%3] = rho * eta
-			r.Bary = append(r.Bary, b)
-			r.Weight = append(r.Weight, 2*w[i]*w[j]*rho*drho)
-		}
-	}
-	return r, nil
+	name := fmt.Sprintf("vertex-graded %d at %d", n, v)
+	return vertexGradedRule(n, v, name, n-2, func(u float64) (float64, float64) { return u * u, 2 * u }), nil
 }
 
 // SideGraded returns an n×n-point rule for integrands that lose smoothness
@@ -171,12 +156,42 @@ func SideGraded(n, a int) (*Rule, error) {
 	if n < 2 || n > 32 || a < 0 || a > 2 {
 		return nil, fmt.Errorf("bem: side-graded rule order %d opposite corner %d out of range", n, a)
 	}
+	name := fmt.Sprintf("side-graded %d opposite %d", n, a)
+	return sideGradedRule(n, a, name, min(n-2, (2*n-3)/3), func(u float64) (float64, float64) { return 1 - (1-u)*(1-u), 2 * (1 - u) }), nil
+}
+
+// vertexGradedRule is the collapsed n×n rule with its apex at corner v and
+// the radial grading ρ(u) with derivative dρ/du given by grade.
+func vertexGradedRule(n, v int, name string, degree int, grade func(u float64) (rho, drho float64)) *Rule {
 	x := make([]float64, n)
 	w := make([]float64, n)
 	gaussLegendre(x, w, 0, 1)
-	r := &Rule{Name: fmt.Sprintf("side-graded %d opposite %d", n, a), Degree: min(n-2, (2*n-3)/3)}
+	r := &Rule{Name: name, Degree: degree}
 	for i := 0; i < n; i++ {
-		xi, dxi := 1-(1-x[i])*(1-x[i]), 2*(1-x[i])
+		rho, drho := grade(x[i])
+		for j := 0; j < n; j++ {
+			eta := x[j]
+			var b [3]float64
+			b[v] = 1 - rho
+			b[(v+1)%3] = rho * (1 - eta)
+			b[(v+2)%3] = rho * eta
+			r.Bary = append(r.Bary, b)
+			r.Weight = append(r.Weight, 2*w[i]*w[j]*rho*drho)
+		}
+	}
+	return r
+}
+
+// sideGradedRule is the collapsed n×n rule with its apex at corner a, the
+// radial grading ξ(u) towards the opposite side given (with dξ/du) by
+// grade, and η = 3v² - 2v³ along that side.
+func sideGradedRule(n, a int, name string, degree int, grade func(u float64) (xi, dxi float64)) *Rule {
+	x := make([]float64, n)
+	w := make([]float64, n)
+	gaussLegendre(x, w, 0, 1)
+	r := &Rule{Name: name, Degree: degree}
+	for i := 0; i < n; i++ {
+		xi, dxi := grade(x[i])
 		for j := 0; j < n; j++ {
 			v := x[j]
 			eta, deta := v*v*(3-2*v), 6*v*(1-v)
@@ -188,7 +203,7 @@ func SideGraded(n, a int) (*Rule, error) {
 			r.Weight = append(r.Weight, 2*w[i]*w[j]*xi*dxi*deta)
 		}
 	}
-	return r, nil
+	return r
 }
 
 func must(r *Rule, err error) *Rule {

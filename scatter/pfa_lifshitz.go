@@ -213,9 +213,8 @@ func coarseError(f []float64) float64 {
 
 // materialPFA returns the PFA options of a run: none when every body is a
 // perfect conductor (Casimir's law exactly), else the Lifshitz law of the
-// materials tabulated over every gap a PFA sum of the scene can meet — from
-// half the smallest sweep gap to four times the scene's size plus the
-// largest gap — at the run's temperature.
+// materials over PlateGapRange at the run's temperature — Settings.Plates
+// when it fits, else a table made here.
 func materialPFA(ctx context.Context, bodies []Body, sweep Sweep, set Settings, gaps []float64) ([]PFAOption, error) {
 	real := false
 	for _, b := range bodies {
@@ -224,18 +223,56 @@ func materialPFA(ctx context.Context, bodies []Body, sweep Sweep, set Settings, 
 	if !real || len(gaps) == 0 {
 		return nil, nil
 	}
-	lo, hi := math.Inf(1), 0.0
-	for _, g := range gaps {
-		lo, hi = math.Min(lo, g), math.Max(hi, g)
-	}
 	unit := Unit(set.Length)
 	kelvin := 0.0
 	if set.ThermalWavenumber > 0 {
 		kelvin = set.ThermalWavenumber / unit.ThermalWavenumber(1) // κ_T is linear in T
 	}
-	t, err := NewPlateTable(ctx, bodies, set.Substrate != nil, unit, kelvin, lo/2, 4*(sceneSize(bodies, sweep)+hi))
-	if err != nil {
-		return nil, err
+	dMin, dMax := PlateGapRange(bodies, sweep, gaps)
+	t := set.Plates
+	if !t.fits(len(bodies), set.Substrate != nil, unit, kelvin, dMin, dMax) {
+		var err error
+		if t, err = NewPlateTable(ctx, bodies, set.Substrate != nil, unit, kelvin, dMin, dMax); err != nil {
+			return nil, err
+		}
 	}
 	return []PFAOption{WithPlateLaw(t.Energy)}, nil
+}
+
+// PlateGapRange returns the gaps (L0) a PFA sum of the scene can meet over
+// the sweep points with these closest gaps: from half the smallest gap to
+// four times the size of the scene (the moving body at every point) plus the
+// largest gap. A PlateTable over this range serves Energies on that sweep.
+func PlateGapRange(bodies []Body, sweep Sweep, gaps []float64) (dMin, dMax float64) {
+	lo, hi := math.Inf(1), 0.0
+	for _, g := range gaps {
+		lo, hi = math.Min(lo, g), math.Max(hi, g)
+	}
+	return lo / 2, 4 * (sceneSize(bodies, sweep) + hi)
+}
+
+// fits reports whether t (possibly nil) serves a scene of n bodies, with or
+// without the substrate, at this unit and temperature for gaps from dMin to
+// dMax (L0): its grid covers the range and it holds every pair.
+func (t *PlateTable) fits(n int, substrate bool, unit Unit, kelvin, dMin, dMax float64) bool {
+	// The temperature comes back from the thermal wavenumber, so it may
+	// differ from the caller's in the last bits.
+	if t == nil || t.unit != unit || math.Abs(t.temperatureK-kelvin) > 1e-12*kelvin {
+		return false
+	}
+	// The grid runs one node beyond each end of the range it was made for.
+	if math.Log(dMin) < t.lnMin+t.step*(1-1e-9) || math.Log(dMax) > t.lnMin+float64(t.n-2)*t.step {
+		return false
+	}
+	for i := 0; i < n; i++ {
+		for j := i + 1; j < n; j++ {
+			if _, ok := t.pairs[pairKey(i, j)]; !ok {
+				return false
+			}
+		}
+		if _, ok := t.pairs[pairKey(i, SubstrateIndex)]; substrate && !ok {
+			return false
+		}
+	}
+	return true
 }

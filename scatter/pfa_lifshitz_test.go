@@ -200,4 +200,31 @@ func TestEnergiesMaterialPFA(t *testing.T) {
 	if math.Abs(got.Mean/want.Mean-1) > 2e-5 {
 		t.Errorf("Energies PFA %.8g, want %.8g", got.Mean, want.Mean)
 	}
+	// A table the caller made over PlateGapRange is used as it is (the same
+	// numbers bit for bit), and one that does not fit (another unit) is
+	// ignored.
+	sweep := Sweep{Body: 1, Direction: r3.Vec{Z: -1}, Offsets: []r3.Vec{{}}}
+	dMin, dMax := PlateGapRange(bodies, sweep, []float64{pts[0].Gap})
+	for _, unit := range []Unit{1e-6, 1e-9} {
+		// A wider grid than Energies would make, so its values differ in the
+		// last digits and show which table was used.
+		given, err := NewPlateTable(context.Background(), bodies, false, unit, 0, dMin/1.5, 1.5*dMax)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := got.Mean // ignored: Energies tabulates its own, as above
+		if unit == 1e-6 {
+			want = PFAEnergy(bodies, 1, r3.Vec{Z: -1}, nil, WithPlateLaw(given.Energy)).Mean
+			if want == got.Mean {
+				t.Fatal("the wider table gives the same PFA: the check cannot tell the tables apart")
+			}
+		}
+		pts, err := Energies(context.Background(), bodies, sweep, Settings{Length: 1e-6, Points: []int{}, Plates: given})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if pts[0].PFA.Mean != want {
+			t.Errorf("with a table for L0 = %g m: PFA %.12g, want %.12g", float64(unit), pts[0].PFA.Mean, want)
+		}
+	}
 }

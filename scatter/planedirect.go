@@ -46,8 +46,7 @@ func (sys *system) factorPlane(ctx context.Context, sf *selfFactors, surf, imgs 
 		start[i+1] = start[i] + s.Len()
 	}
 	n := start[len(surf)]
-	// d holds Δ = I - M_P (lower triangle), which logDetIMinus factors into
-	// the Cholesky factor of M_P while it sums ln det M_P.
+	// d holds the lower triangle of M_P, then its Cholesky factor.
 	d := make([]float64, n*n)
 	sub := func(r0, c0 int, b *mat.Dense, sign float64) { // d[r0+r, c0+c] += sign b[c, r]
 		raw := b.RawMatrix()
@@ -58,15 +57,15 @@ func (sys *system) factorPlane(ctx context.Context, sf *selfFactors, surf, imgs 
 			}
 		}
 	}
-	// symmetric adds the symmetric part of the square block b to the lower
-	// triangle at (r0, r0): M(i, img i) is symmetric up to the quadrature
-	// error of mirrored pairs, which the mean removes.
+	// symmetric subtracts the symmetric part of the square block b from the
+	// lower triangle at (r0, r0): M(i, img i) is symmetric up to the
+	// quadrature error of mirrored pairs, which the mean removes.
 	symmetric := func(r0 int, b *mat.Dense) {
 		raw := b.RawMatrix()
 		for r := 0; r < raw.Rows; r++ {
 			row := d[(r0+r)*n+r0:]
 			for c := 0; c <= r; c++ {
-				row[c] += 0.5 * (raw.Data[r*raw.Stride+c] + raw.Data[c*raw.Stride+r])
+				row[c] -= 0.5 * (raw.Data[r*raw.Stride+c] + raw.Data[c*raw.Stride+r])
 			}
 		}
 	}
@@ -76,9 +75,8 @@ func (sys *system) factorPlane(ctx context.Context, sf *selfFactors, surf, imgs 
 		for r := 0; r < ni; r++ {
 			row := d[(start[i]+r)*n+start[i]:]
 			for c := 0; c <= r; c++ {
-				row[c] -= self.At(r, c)
+				row[c] = self.At(r, c)
 			}
-			row[r]++
 		}
 		img := mat.NewDense(ni, ni, nil)
 		if err := sys.asm.Cross(ctx, img, sf.op, surf[i], imgs[i]); err != nil {
@@ -91,21 +89,21 @@ func (sys *system) factorPlane(ctx context.Context, sf *selfFactors, surf, imgs 
 			if err := sys.asm.Cross(ctx, b, sf.op, surf[i], surf[j]); err != nil {
 				return 0, nil, err
 			}
-			sub(start[j], start[i], b, -1)
+			sub(start[j], start[i], b, 1)
 			b.Zero()
 			if err := sys.asm.Cross(ctx, b, sf.op, surf[i], imgs[j]); err != nil {
 				return 0, nil, err
 			}
-			sub(start[j], start[i], b, 1)
+			sub(start[j], start[i], b, -1)
 		}
 		if err := ctx.Err(); err != nil {
 			return 0, nil, err
 		}
 	}
-	ld, err := logDetIMinus(d, n, n, sys.threads)
-	if err != nil {
-		return 0, nil, sys.checkPositive(sf.kappa, err)
+	if pivot, ok := choleskyLower(d, n, n); !ok {
+		return 0, nil, sys.checkPositive(sf.kappa, &ErrNotPositive{What: "the matrix with the substrate", Pivot: pivot})
 	}
+	ld := (&factor{l: blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: d}}).logDet()
 	for i := range surf {
 		ld -= sf.f[i].logDet()
 	}

@@ -94,6 +94,11 @@ type Settings struct {
 	// cross approximation to a tolerance tied to Accuracy, DESIGN §10) and
 	// the two-body reduction works in the compressed form.
 	Dense bool
+	// Plates, if not nil, is the Lifshitz plate law of these bodies' materials
+	// that the caller has already tabulated (NewPlateTable); Energies uses it
+	// for the PFA baseline when it fits the run's unit, temperature and gaps,
+	// and otherwise tabulates its own.
+	Plates *PlateTable
 	// Substrate, if not nil, is an infinite perfectly conducting plane under
 	// the scene, treated exactly by images (DESIGN §6). Point.Gap is then the
 	// distance of the moving body to the plane.

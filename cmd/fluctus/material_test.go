@@ -389,6 +389,9 @@ func TestRunMaterialsPFA(t *testing.T) {
 	if hs.set.Length != 1e-9 || hs.bodies[0].Material == nil || hs.bodies[1].Material != nil {
 		t.Errorf("solver got Length %g, materials %v, %v", hs.set.Length, hs.bodies[0].Material, hs.bodies[1].Material)
 	}
+	if hs.set.Plates == nil {
+		t.Error("solver got no plate table: it would tabulate the Lifshitz law again")
+	}
 	res := read(filepath.Join(dir, "s", "result.json"))
 	if got := pfaOf(res); len(got) == 0 || got[0] == eg[0] {
 		t.Errorf("solver-run PFA %v: want the stand-in solver's own values, not recomputed by the command", got)

@@ -402,6 +402,7 @@ func (a *app) settings(j *job.Job, scene *job.Scene, o runOptions) scatter.Setti
 		Forces:            j.Forces,
 		Stiffness:         j.Forces,
 		Substrate:         scene.Substrate,
+		Plates:            scene.Plates,
 	}
 }
 

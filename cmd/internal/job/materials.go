@@ -3,7 +3,6 @@ package job
 import (
 	"context"
 	"fmt"
-	"math"
 	"strings"
 
 	"github.com/fluctus/fluctus/scatter"
@@ -12,23 +11,20 @@ import (
 
 // MakePlates tabulates the Lifshitz energy per area of the scene's
 // materials (scatter.PlateTable) for the PFA baseline, over every gap a PFA
-// sum of the scene can meet: from half the smallest of gaps (the closest
-// distances of the sweep points, L0) to four times the bodies' size plus the
-// largest gap. It does nothing when every body is a perfect conductor: the
+// sum of the scene's sweep can meet (scatter.PlateGapRange, gaps being the
+// closest distances of the sweep points, L0), so that the solver can use the
+// same table. It does nothing when every body is a perfect conductor: the
 // PFA then keeps Casimir's law exactly.
 func (s *Scene) MakePlates(ctx context.Context, gaps []float64) error {
 	s.Plates = nil
 	if !s.RealMaterials() || len(gaps) == 0 {
 		return nil
 	}
-	lo, hi := math.Inf(1), 0.0
-	for _, g := range gaps {
-		lo, hi = math.Min(lo, g), math.Max(hi, g)
+	dMin, dMax := scatter.PlateGapRange(s.Bodies, s.Sweep, gaps)
+	if !(dMin > 0) {
+		return fmt.Errorf("%s: PFA with materials: smallest gap %g: want a gap > 0", s.Job.Path, 2*dMin)
 	}
-	if !(lo > 0) {
-		return fmt.Errorf("%s: PFA with materials: smallest gap %g: want a gap > 0", s.Job.Path, lo)
-	}
-	t, err := scatter.NewPlateTable(ctx, s.Bodies, s.Substrate != nil, s.Job.Unit, s.Job.Temperature, lo/2, 4*(s.size()+hi))
+	t, err := scatter.NewPlateTable(ctx, s.Bodies, s.Substrate != nil, s.Job.Unit, s.Job.Temperature, dMin, dMax)
 	if err != nil {
 		return fmt.Errorf("%s: %w", s.Job.Path, err)
 	}
