@@ -55,6 +55,62 @@ func (as Assembler) CrossGradient(ctx context.Context, h *mat.Dense, op *EFIE, a
 	return total, err
 }
 
+// CrossGradientSparse is CrossGradient for a weight matrix h whose nonzero
+// entries all lie in the listed rows (basis indices of a) or the listed
+// columns (basis indices of b). Only the triangle pairs that carry such an
+// entry are integrated: those with a panel of a on a listed row, against
+// every panel of b, and the others against the panels of b on a listed
+// column — about 2(len(rows)·T_b + len(cols)·T_a) pairs instead of T_a·T_b.
+// Entries of h outside the listed rows and columns must be zero; the
+// result is then that of CrossGradient to rounding (the pairs are summed in
+// the same order, so the sum is deterministic as well).
+func (as Assembler) CrossGradientSparse(ctx context.Context, h *mat.Dense, op *EFIE, a, b *Surface, centre r3.Vec, rows, cols []int) (Motion, error) {
+	r, c := h.Dims()
+	if r != a.Len() || c != b.Len() {
+		return Motion{}, fmt.Errorf("bem: weight matrix is %d×%d, surfaces have %d and %d unknowns", r, c, a.Len(), b.Len())
+	}
+	onRow := make([]bool, a.Len())
+	for _, i := range rows {
+		if i < 0 || i >= a.Len() {
+			return Motion{}, fmt.Errorf("bem: weight row %d outside the %d unknowns of the rows' surface", i, a.Len())
+		}
+		onRow[i] = true
+	}
+	onCol := make([]bool, b.Len())
+	for _, j := range cols {
+		if j < 0 || j >= b.Len() {
+			return Motion{}, fmt.Errorf("bem: weight column %d outside the %d unknowns of the columns' surface", j, b.Len())
+		}
+		onCol[j] = true
+	}
+	var colPanels []int // panels of b with a listed column, ascending
+	for t := range b.Panels {
+		if e := b.edge[t]; onCol[e[0]] || onCol[e[1]] || onCol[e[2]] {
+			colPanels = append(colPanels, t)
+		}
+	}
+	raw := h.RawMatrix()
+	part := make([]Motion, len(a.Panels))
+	err := as.byColor(ctx, a, func(s int) {
+		acc := &part[s]
+		if e := a.edge[s]; onRow[e[0]] || onRow[e[1]] || onRow[e[2]] {
+			for t := range b.Panels {
+				gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
+			}
+			return
+		}
+		for _, t := range colPanels {
+			gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
+		}
+	})
+	var total Motion
+	for _, p := range part {
+		total.Translation = r3.Add(total.Translation, p.Translation)
+		total.Rotation = r3.Add(total.Rotation, p.Rotation)
+	}
+	return total, err
+}
+
 // gradPair adds the derivatives contributed by panel s of a and panel t of b.
 func gradPair(acc *Motion, h []float64, stride int, op *EFIE, a *Surface, s int, b *Surface, t int, centre r3.Vec) {
 	pp := collapse(h, stride, op.Kappa, a, s, b, t, centre)
@@ -166,27 +222,67 @@ func subPoints(v [3]r3.Vec, c r3.Vec, r *Rule) []qpoint {
 }
 
 // product integrates the pair's derivative integrands with a product rule.
+// Per point pair the force density is w W g d (d = x - y, W the collapsed
+// RWG weight) and the torque density (lever + ỹ) × that plus w κ G times
+// the turning basis S ỹ×x̃ - ỹ×β - α×x̃ + δ; the parts that are linear in
+// x̃ or ỹ alone, and the lever, are summed first and crossed once per
+// pair of panels. The exponential is fastExp.
 func (pp *pairPoly) product(xs, ys []qpoint) {
 	kappa, S, alpha, beta, gamma := pp.kappa, pp.S, pp.alpha, pp.beta, pp.gamma
-	force, torque := pp.force, pp.torque
-	lever, delta := pp.lever, pp.delta
-	for _, x := range xs {
-		for _, y := range ys {
-			d := r3.Sub(x.x, y.x)
-			R := math.Sqrt(r3.Dot(d, d))
-			e := math.Exp(-kappa*R) * inv4Pi
-			G := e / R
-			g := (1 + kappa*R) * e / (R * R * R)
+	div := 4 * S / kappa
+	var fx, fy, fz float64      // Σ fd
+	var tx, ty, tz float64      // Σ ỹ × fd
+	var sx, sy, sz float64      // Σ c2 ỹ × x̃
+	var yx, yy, yz float64      // Σ c2 ỹ
+	var qx, qy, qz, c2s float64 // Σ c2 x̃, Σ c2
+	for i := range xs {
+		x := &xs[i]
+		xa := x.rel.X*alpha.X + x.rel.Y*alpha.Y + x.rel.Z*alpha.Z
+		var gx, gy, gz, c2x float64 // this row's Σ c2 ỹ and Σ c2
+		for j := range ys {
+			y := &ys[j]
+			dx, dy, dz := x.x.X-y.x.X, x.x.Y-y.x.Y, x.x.Z-y.x.Z
+			R := math.Sqrt(dx*dx + dy*dy + dz*dz)
+			inv := 1 / R
+			e := fastExp(-kappa*R) * inv4Pi
+			G := e * inv
+			g := (1 + kappa*R) * G * inv * inv
 			w := x.w * y.w
-			W := kappa*(S*r3.Dot(x.rel, y.rel)-r3.Dot(x.rel, alpha)-r3.Dot(y.rel, beta)+gamma) + 4*S/kappa
-			fd := r3.Scale(w*W*g, d)
-			force = r3.Add(force, fd)
-			// (y - centre) × ∂G/∂u weighted, plus the turning basis.
-			arm := r3.Add(lever, y.rel)
-			torque = r3.Add(torque, r3.Cross(arm, fd))
-			spin := r3.Sub(r3.Sub(r3.Scale(S, r3.Cross(y.rel, x.rel)), r3.Cross(y.rel, beta)), r3.Cross(alpha, x.rel))
-			torque = r3.Add(torque, r3.Scale(w*kappa*G, r3.Add(spin, delta)))
+			xy := x.rel.X*y.rel.X + x.rel.Y*y.rel.Y + x.rel.Z*y.rel.Z
+			yb := y.rel.X*beta.X + y.rel.Y*beta.Y + y.rel.Z*beta.Z
+			W := kappa*(S*xy-xa-yb+gamma) + div
+			c1 := w * W * g
+			ex, ey, ez := c1*dx, c1*dy, c1*dz
+			fx += ex
+			fy += ey
+			fz += ez
+			tx += y.rel.Y*ez - y.rel.Z*ey
+			ty += y.rel.Z*ex - y.rel.X*ez
+			tz += y.rel.X*ey - y.rel.Y*ex
+			c2 := w * kappa * G
+			sx += c2 * (y.rel.Y*x.rel.Z - y.rel.Z*x.rel.Y)
+			sy += c2 * (y.rel.Z*x.rel.X - y.rel.X*x.rel.Z)
+			sz += c2 * (y.rel.X*x.rel.Y - y.rel.Y*x.rel.X)
+			gx += c2 * y.rel.X
+			gy += c2 * y.rel.Y
+			gz += c2 * y.rel.Z
+			c2x += c2
 		}
+		yx += gx
+		yy += gy
+		yz += gz
+		qx += c2x * x.rel.X
+		qy += c2x * x.rel.Y
+		qz += c2x * x.rel.Z
+		c2s += c2x
 	}
-	pp.force, pp.torque = force, torque
+	f := r3.Vec{X: fx, Y: fy, Z: fz}
+	pp.force = r3.Add(pp.force, f)
+	// Σ (lever + ỹ) × fd + Σ c2 (S ỹ×x̃ - ỹ×β - α×x̃ + δ).
+	t := r3.Add(r3.Cross(pp.lever, f), r3.Vec{X: tx, Y: ty, Z: tz})
+	t = r3.Add(t, r3.Scale(S, r3.Vec{X: sx, Y: sy, Z: sz}))
+	t = r3.Sub(t, r3.Cross(r3.Vec{X: yx, Y: yy, Z: yz}, beta))
+	t = r3.Sub(t, r3.Cross(alpha, r3.Vec{X: qx, Y: qy, Z: qz}))
+	t = r3.Add(t, r3.Scale(c2s, pp.delta))
+	pp.torque = r3.Add(pp.torque, t)
 }

@@ -152,3 +152,50 @@ func TestCrossGradientNearPairs(t *testing.T) {
 		t.Errorf("rotation: default %v, reference %v (rel %.2g)", got.Rotation, ref.Rotation, d/scale)
 	}
 }
+
+// TestCrossGradientSparse checks that the sparse contraction, given a weight
+// that vanishes outside a few rows and columns, equals the full one: the
+// skipped pairs carry zero weight, so the sums agree bit for bit (tolerance
+// 0), and an index out of range is an error.
+func TestCrossGradientSparse(t *testing.T) {
+	ma, err := mesh.SphereLevel(1, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := surfaceOf(t, ma)
+	b := a.Translate(r3.Vec{X: 0.4, Z: 2.6})
+	rows, cols := []int{3, 17, 40}, []int{0, 25, 26, 61}
+	rng := rand.New(rand.NewPCG(3, 4))
+	h := mat.NewDense(a.Len(), b.Len(), nil)
+	for _, i := range rows {
+		for j := 0; j < b.Len(); j++ {
+			h.Set(i, j, rng.NormFloat64())
+		}
+	}
+	for _, j := range cols {
+		for i := 0; i < a.Len(); i++ {
+			h.Set(i, j, rng.NormFloat64())
+		}
+	}
+	ctx := context.Background()
+	centre := r3.Vec{X: 0.4, Z: 2.5}
+	for _, kappa := range []float64{0.1, 3} {
+		op, _ := NewEFIE(kappa)
+		as := Assembler{Threads: 2}
+		full, err := as.CrossGradient(ctx, h, op, a, b, centre)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sparse, err := as.CrossGradientSparse(ctx, h, op, a, b, centre, rows, cols)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if full != sparse {
+			t.Errorf("κ=%g: sparse %+v, full %+v", kappa, sparse, full)
+		}
+	}
+	op, _ := NewEFIE(1)
+	if _, err := (Assembler{}).CrossGradientSparse(ctx, h, op, a, b, centre, []int{a.Len()}, nil); err == nil {
+		t.Error("row out of range accepted")
+	}
+}

@@ -76,9 +76,9 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 //
 //	H = -(L0^-T Q) C^-1 Y L1^-1,  C = I_r - Y Yᵀ,
 //
-// a rank-r product formed in O(N² r); its contraction with dM01/du is the
-// dense pair loop of bem.CrossGradient (the kernel derivative is not
-// compressed).
+// a rank-r product; its contraction with dM01/du is moved onto the cross of
+// the approximation (crossWeight), so the kernel derivatives are needed on
+// the pivot rows and columns only (bem.CrossGradientSparse).
 func (sys *system) evaluatePairLowRank(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, lr *lowRank) (evaluation, error) {
 	r := lr.rank()
 	if r == 0 {
@@ -108,19 +108,115 @@ func (sys *system) evaluatePairLowRank(ctx context.Context, sf *selfFactors, sur
 	w := transpose(z)                    // N1 × r
 	solveLowerTransInPlace(sf.f[1].l, w) // (C^-1 Y L1^-1)ᵀ
 	solveLowerTransInPlace(sf.f[0].l, q) // L0^-T Q, N0 × r
-	h := mat.NewDense(q.Rows, w.Rows, nil)
-	blas64.Gemm(blas.NoTrans, blas.Trans, -1, q, w, 0, h.RawMatrix()) // H
+	for i := range q.Data {
+		q.Data[i] = -q.Data[i] // H = A Bᵀ with A = -L0^-T Q, B = w
+	}
 	var mot bem.Motion
-	if sys.moving == 1 {
-		mot, err = sys.asm.CrossGradient(ctx, h, sf.op, surf[0], surf[1], pl.centre)
+	if h, ok := crossWeight(lr.sk, q, w); ok {
+		if sys.moving == 1 {
+			mot, err = sys.asm.CrossGradientSparse(ctx, h, sf.op, surf[0], surf[1], pl.centre, lr.sk.I, lr.sk.J)
+		} else {
+			mot, err = sys.asm.CrossGradientSparse(ctx, mat.DenseCopyOf(h.T()), sf.op, surf[1], surf[0], pl.centre, lr.sk.J, lr.sk.I)
+		}
 	} else {
-		mot, err = sys.asm.CrossGradient(ctx, mat.DenseCopyOf(h.T()), sf.op, surf[1], surf[0], pl.centre)
+		h := mat.NewDense(q.Rows, w.Rows, nil)
+		blas64.Gemm(blas.NoTrans, blas.Trans, 1, q, w, 0, h.RawMatrix()) // H
+		if sys.moving == 1 {
+			mot, err = sys.asm.CrossGradient(ctx, h, sf.op, surf[0], surf[1], pl.centre)
+		} else {
+			mot, err = sys.asm.CrossGradient(ctx, mat.DenseCopyOf(h.T()), sf.op, surf[1], surf[0], pl.centre)
+		}
 	}
 	if err != nil {
 		return evaluation{}, err
 	}
 	ev.setGrad(mot, 2)
 	return ev, nil
+}
+
+// crossWeight moves the contraction <H, dM> with H = A Bᵀ (A: m×r, B: n×r)
+// onto the cross of the block's approximation. With M ≈ C S^-1 R
+// (skeleton) and the pivots held fixed, the derivative of the
+// approximation is
+//
+//	dM ≈ dC S^-1 R + C S^-1 dR - C S^-1 dS S^-1 R,
+//
+// so <H, dM> ≈ <W, dM> for a weight W that lives on the pivot columns J
+// (W[:, J] += A X1ᵀ, X1 = S^-1 R B), the pivot rows I (W[I, :] += X2 Bᵀ,
+// X2 = S^-ᵀ Cᵀ A) and their crossings (W[I, J] -= X2 X1ᵀ). The
+// approximation error of the skeleton is an analytic function of the motion
+// that is small wherever the block is, so its derivative is small too
+// (Cauchy's estimate over a neighbourhood of the gap's size): the
+// contraction keeps the block's relative tolerance, and it needs only the
+// kernel derivatives on r rows and r columns instead of all pairs
+// (TestCompressedIntegrand compares it with the dense contraction). It
+// reports false when there is no skeleton or S is numerically singular.
+func crossWeight(sk *skeleton, a, b blas64.General) (*mat.Dense, bool) {
+	if sk == nil || len(sk.I) == 0 {
+		return nil, false
+	}
+	rs, m, n, r := len(sk.I), a.Rows, b.Rows, a.Cols
+	s := mat.NewDense(rs, rs, nil)
+	rmat := mat.NewDense(rs, n, nil)
+	for k, row := range sk.rows {
+		rmat.SetRow(k, row)
+		for l, j := range sk.J {
+			s.Set(k, l, row[j])
+		}
+	}
+	cmat := mat.NewDense(m, rs, nil)
+	for l, col := range sk.cols {
+		cmat.SetCol(l, col)
+	}
+	am := mat.NewDense(m, r, a.Data[:m*r])
+	bm := mat.NewDense(n, r, b.Data[:n*r])
+	if a.Stride != r || b.Stride != r {
+		am, bm = mat.DenseCopyOf(fromGeneral(a)), mat.DenseCopyOf(fromGeneral(b))
+	}
+	var lu mat.LU
+	lu.Factorize(s)
+	if lu.Cond() > 1e13 {
+		return nil, false
+	}
+	var rb, ca, x1, x2 mat.Dense
+	rb.Mul(rmat, bm)     // R B, rs × r
+	ca.Mul(cmat.T(), am) // Cᵀ A, rs × r
+	if err := lu.SolveTo(&x1, false, &rb); err != nil {
+		return nil, false
+	}
+	if err := lu.SolveTo(&x2, true, &ca); err != nil {
+		return nil, false
+	}
+	w := mat.NewDense(m, n, nil)
+	var w1, w2, w3 mat.Dense
+	w1.Mul(am, x1.T())  // m × rs, on the columns J
+	w2.Mul(&x2, bm.T()) // rs × n, on the rows I
+	w3.Mul(&x2, x1.T()) // rs × rs, on the crossings
+	wd, r1, r2, r3 := w.RawMatrix(), w1.RawMatrix(), w2.RawMatrix(), w3.RawMatrix()
+	for i := 0; i < m; i++ {
+		row, src := wd.Data[i*wd.Stride:], r1.Data[i*r1.Stride:]
+		for l, j := range sk.J {
+			row[j] = src[l]
+		}
+	}
+	for k, i := range sk.I {
+		row := wd.Data[i*wd.Stride : i*wd.Stride+n]
+		for j, v := range r2.Data[k*r2.Stride : k*r2.Stride+n] {
+			row[j] += v
+		}
+		src := r3.Data[k*r3.Stride:]
+		for l, j := range sk.J {
+			row[j] -= src[l]
+		}
+	}
+	return w, true
+}
+
+// fromGeneral wraps a as a gonum matrix.
+func fromGeneral(a blas64.General) *mat.Dense {
+	d := &mat.Dense{}
+	d.SetRawMatrix(a)
+	return d
 }
 
 // copyGeneral returns a compact copy of a.
