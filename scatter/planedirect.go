@@ -6,6 +6,7 @@ import (
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -111,8 +112,25 @@ func (sys *system) factorPlane(ctx context.Context, sf *selfFactors, surf, imgs 
 }
 
 // inverseColumn returns the blocks (M_P^-1)_im of the moving body's column m
-// for every body i: two triangular solves with the factor of M_P.
+// for every body i: two triangular solves with the factor of M_P, or, when
+// the column is most of the matrix (one body over the substrate, the common
+// case), the whole inverse from the factor by LAPACK's Dpotri — L^-1, then
+// L^-T L^-1, about 2n³/3 flops against the 2n³ of solving for the n
+// columns of the identity.
 func (pf *planeFactor) inverseColumn(m int) []*mat.Dense {
+	n, start := pf.n, pf.start
+	nm := start[m+1] - start[m]
+	if 3*nm >= 2*n {
+		if out, ok := pf.inverseByPotri(m); ok {
+			return out
+		}
+	}
+	return pf.inverseBySolves(m)
+}
+
+// inverseBySolves is inverseColumn by two triangular solves with the factor
+// for the columns of the identity in the moving body's block.
+func (pf *planeFactor) inverseBySolves(m int) []*mat.Dense {
 	n, start := pf.n, pf.start
 	nm := start[m+1] - start[m]
 	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: pf.lower}
@@ -128,6 +146,37 @@ func (pf *planeFactor) inverseColumn(m int) []*mat.Dense {
 		out[i] = mat.NewDense(ni, nm, x.Data[start[i]*nm:(start[i]+ni)*nm])
 	}
 	return out
+}
+
+// inverseByPotri is inverseColumn from the whole inverse of M_P (a copy of
+// the factor is inverted, so the factor stays). It reports false if LAPACK
+// finds the factor singular, which a successful Cholesky factorisation
+// rules out in exact arithmetic.
+func (pf *planeFactor) inverseByPotri(m int) ([]*mat.Dense, bool) {
+	n, start := pf.n, pf.start
+	inv, ok := lapack64.Potri(blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: n, Stride: n, Data: append([]float64(nil), pf.lower...)})
+	if !ok {
+		return nil, false
+	}
+	c0, nm := start[m], start[m+1]-start[m]
+	out := make([]*mat.Dense, len(start)-1)
+	for i := range out {
+		ni := start[i+1] - start[i]
+		blk := mat.NewDense(ni, nm, nil)
+		for r := 0; r < ni; r++ {
+			gr := start[i] + r
+			for c := 0; c < nm; c++ {
+				gc := c0 + c
+				if gc <= gr {
+					blk.Set(r, c, inv.Data[gr*n+gc])
+				} else {
+					blk.Set(r, c, inv.Data[gc*n+gr]) // the upper triangle by symmetry
+				}
+			}
+		}
+		out[i] = blk
+	}
+	return out, true
 }
 
 // planeInverse gives the moving body's block column of M_P^-1.
