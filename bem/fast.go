@@ -4,7 +4,9 @@ package bem
 // bulk of the assembly time: the rule level, the product-rule moments and the
 // nine RWG entries of a pair in plain float64 arithmetic without interface
 // calls. Its results are those of the general path (Quadrature.Moments and
-// the EFIE combination) to rounding.
+// the EFIE combination) to rounding, except for the far pairs that take the
+// moment expansion (Quadrature.expands, expansion.go), which the general
+// path integrates by product rules.
 
 // pairYukawa is EFIE.Pair for the Yukawa kernel.
 func (op *EFIE) pairYukawa(dst *[3][3]float64, y *Yukawa, a *Surface, s int, b *Surface, t int, same bool) {
@@ -16,6 +18,15 @@ func (op *EFIE) pairYukawa(dst *[3][3]float64, y *Yukawa, a *Surface, s int, b *
 		// Centroid rule: only I0 survives, M_kl = c_k c_l I0 (κ p_k·p_l + 4/κ).
 		i0 := a.points[0][s][0].w * b.points[0][t][0].w * fastExp(-y.Kappa*r) * inv4Pi / r
 		centroidEntries(dst, op.Kappa, i0, ps, pt, &a.coef[s], &b.coef[t])
+		return
+	case lv > 0 && op.Quad.expands(y.Kappa, max(ps.Size, pt.Size), r):
+		// Moment expansion about the centroid pair: one exponential.
+		dx := ps.Centroid.X - pt.Centroid.X
+		dy := ps.Centroid.Y - pt.Centroid.Y
+		dz := ps.Centroid.Z - pt.Centroid.Z
+		var e expCoef
+		expansionCoefs(&e, y.Kappa, ps.Area*pt.Area, dx, dy, dz, r, &a.exp[s], &b.exp[t])
+		expansionEntries(dst, op.Kappa, &e, &a.coef[s], &b.coef[t])
 		return
 	case lv > 0:
 		m = farMomentsYukawa(y.Kappa, r+ps.Size+pt.Size, a.points[lv][s], b.points[lv][t])

@@ -3,6 +3,7 @@ package bem
 import (
 	"context"
 	"fmt"
+	"math"
 	"syscall"
 	"testing"
 	"time"
@@ -14,7 +15,8 @@ import (
 // BenchmarkAssembleCrossGaps reports triangle pairs per second for the
 // interaction block of two 1280-triangle unit spheres at several centre
 // distances (gap = distance - 2) and κR = 1, and the share of pairs served by
-// each rule level (far levels 0-4, then near pairs).
+// each rule: the moment expansion (share-expand), the far product rules of
+// levels 0-4 not replaced by it, then near pairs.
 func BenchmarkAssembleCrossGaps(b *testing.B) {
 	s := testSurface(b, 8)
 	op, _ := NewEFIE(1)
@@ -35,15 +37,22 @@ func BenchmarkAssembleCrossGaps(b *testing.B) {
 			b.ReportMetric(pairs, "pairs")
 			b.StopTimer()
 			count := make([]int, len(panelRules)+1)
-			for ps := range s.Panels {
-				for pt := range o.Panels {
-					lv, _ := op.Quad.level(op.Kernel, &s.Panels[ps], &o.Panels[pt])
-					if lv < 0 {
-						lv = len(panelRules)
+			expand := 0
+			for i := range s.Panels {
+				for j := range o.Panels {
+					ps, pt := &s.Panels[i], &o.Panels[j]
+					lv, r := op.Quad.levelKappa(op.Kappa, ps, pt)
+					switch {
+					case lv > 0 && op.Quad.expands(op.Kappa, max(ps.Size, pt.Size), r):
+						expand++
+					case lv < 0:
+						count[len(panelRules)]++
+					default:
+						count[lv]++
 					}
-					count[lv]++
 				}
 			}
+			b.ReportMetric(float64(expand)/pairs, "share-expand")
 			for lv, c := range count[:5] {
 				b.ReportMetric(float64(c)/pairs, fmt.Sprintf("share-far%d", lv))
 			}
@@ -82,8 +91,9 @@ func cpuTime() time.Duration {
 }
 
 // BenchmarkPairFar times single far pairs (one goroutine): the EFIE entries
-// of a 3-point (level 1) and a centroid (level 0) pair, and the moments
-// alone.
+// of a level-1 pair (served by the moment expansion) and of a centroid
+// (level 0) pair, the 3-point product-rule moments alone, and the expansion
+// moments alone.
 func BenchmarkPairFar(b *testing.B) {
 	s := testSurface(b, 8)
 	op, _ := NewEFIE(1)
@@ -121,4 +131,22 @@ func BenchmarkPairFar(b *testing.B) {
 			b.ReportMetric(float64((cpuTime()-cpu0).Nanoseconds())/float64(b.N), "cpu-ns/pair")
 		})
 	}
+	o := s.Translate(r3.Vec{Z: 3})
+	b.Run("expansion-moments", func(b *testing.B) {
+		n := len(o.Panels)
+		ps := &s.Panels[5]
+		var e expCoef
+		cpu0 := cpuTime()
+		t := 0
+		for i := 0; i < b.N; i++ {
+			pt := &o.Panels[t]
+			R := r3.Sub(ps.Centroid, pt.Centroid)
+			expansionCoefs(&e, 1, ps.Area*pt.Area, R.X, R.Y, R.Z, math.Sqrt(r3.Dot(R, R)), &s.exp[5], &o.exp[t])
+			if t++; t == n {
+				t = 0
+			}
+		}
+		_ = e
+		b.ReportMetric(float64((cpuTime()-cpu0).Nanoseconds())/float64(b.N), "cpu-ns/pair")
+	})
 }

@@ -23,6 +23,8 @@ type Surface struct {
 	colors [][]int
 	// points[rule][t] are the points of rule panelRules[rule] on panel t.
 	points [][][]qpoint
+	// exp[t] are the moments of panel t for the far-pair expansion.
+	exp []expPanel
 }
 
 // qpoint is a quadrature point with its weight (area included) and its
@@ -76,6 +78,7 @@ func NewSurface(b *mesh.Basis) (*Surface, error) {
 		}
 	}
 	s.colors = colorPanels(b)
+	s.exp = expPanels(s.Panels)
 	s.points = make([][][]qpoint, len(panelRules))
 	for lv, r := range panelRules {
 		s.points[lv] = make([][]qpoint, nt)
@@ -98,8 +101,8 @@ func panelPoints(p *Panel, r *Rule) []qpoint {
 // Len returns the number of unknowns (RWG functions) of the surface.
 func (s *Surface) Len() int { return len(s.Basis.Edges) }
 
-// Translate returns the surface moved rigidly by v. The basis and the
-// coloring are shared with s.
+// Translate returns the surface moved rigidly by v. The basis, the coloring
+// and the expansion moments (relative to the centroids) are shared with s.
 func (s *Surface) Translate(v r3.Vec) *Surface {
 	c := *s
 	c.Panels = make([]Panel, len(s.Panels))
@@ -205,6 +208,7 @@ func (s *Surface) Mirror(point, n r3.Vec) *Surface {
 	for t, p := range s.Panels {
 		c.Panels[t] = NewPanel(reflect(p.V[0]), reflect(p.V[1]), reflect(p.V[2]))
 	}
+	c.exp = expPanels(c.Panels)
 	c.points = make([][][]qpoint, len(s.points))
 	for lv := range s.points {
 		c.points[lv] = make([][]qpoint, len(s.points[lv]))
