@@ -18,15 +18,7 @@ func sphereSurface(t testing.TB, radius float64, level int) *Surface {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := mesh.NewBasis(m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := NewSurface(b)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return surfaceOf(t, m)
 }
 
 // ruleMoments integrates (1/A)∫u⊗u, (1/A)∫|u|² and (1/A)∫|u|⁴ (u relative

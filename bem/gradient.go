@@ -36,23 +36,7 @@ func (as Assembler) CrossGradient(ctx context.Context, h *mat.Dense, op *EFIE, a
 	if r != a.Len() || c != b.Len() {
 		return Motion{}, fmt.Errorf("bem: weight matrix is %d×%d, surfaces have %d and %d unknowns", r, c, a.Len(), b.Len())
 	}
-	raw := h.RawMatrix()
-	// Each panel of a keeps its own sum, added in panel order afterwards, so
-	// the result does not depend on how the threads were scheduled (a
-	// resumed or sharded run reproduces an uninterrupted one bit for bit).
-	part := make([]Motion, len(a.Panels))
-	err := as.byColor(ctx, a, func(s int) {
-		acc := &part[s]
-		for t := range b.Panels {
-			gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
-		}
-	})
-	var total Motion
-	for _, p := range part {
-		total.Translation = r3.Add(total.Translation, p.Translation)
-		total.Rotation = r3.Add(total.Rotation, p.Rotation)
-	}
-	return total, err
+	return as.contract(ctx, h, op, a, b, centre, func(int) bool { return true }, nil)
 }
 
 // CrossGradientSparse is CrossGradient for a weight matrix h whose nonzero
@@ -89,17 +73,31 @@ func (as Assembler) CrossGradientSparse(ctx context.Context, h *mat.Dense, op *E
 			colPanels = append(colPanels, t)
 		}
 	}
+	onRowPanel := func(s int) bool {
+		e := a.edge[s]
+		return onRow[e[0]] || onRow[e[1]] || onRow[e[2]]
+	}
+	return as.contract(ctx, h, op, a, b, centre, onRowPanel, colPanels)
+}
+
+// contract sums the derivatives of the pairs that carry weight: panel s of
+// a against every panel of b when full(s), else against the panels others
+// (ascending). Each panel of a keeps its own sum, added in panel order
+// afterwards, so the result does not depend on how the threads were
+// scheduled (a resumed or sharded run reproduces an uninterrupted one bit
+// for bit).
+func (as Assembler) contract(ctx context.Context, h *mat.Dense, op *EFIE, a, b *Surface, centre r3.Vec, full func(s int) bool, others []int) (Motion, error) {
 	raw := h.RawMatrix()
 	part := make([]Motion, len(a.Panels))
 	err := as.byColor(ctx, a, func(s int) {
 		acc := &part[s]
-		if e := a.edge[s]; onRow[e[0]] || onRow[e[1]] || onRow[e[2]] {
+		if full(s) {
 			for t := range b.Panels {
 				gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
 			}
 			return
 		}
-		for _, t := range colPanels {
+		for _, t := range others {
 			gradPair(acc, raw.Data, raw.Stride, op, a, s, b, t, centre)
 		}
 	})

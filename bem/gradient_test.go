@@ -12,7 +12,7 @@ import (
 	"github.com/fluctus/fluctus/mesh"
 )
 
-func surfaceOf(t *testing.T, m *mesh.Mesh) *Surface {
+func surfaceOf(t testing.TB, m *mesh.Mesh) *Surface {
 	t.Helper()
 	b, err := mesh.NewBasis(m)
 	if err != nil {

@@ -5,25 +5,11 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/spatial/r3"
-
-	"github.com/fluctus/fluctus/mesh"
 )
 
 func testSurface(t testing.TB, level int) *Surface {
 	t.Helper()
-	m, err := mesh.SphereLevel(1, level)
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := mesh.NewBasis(m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := NewSurface(b)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return sphereSurface(t, 1, level)
 }
 
 // TestPairAccuracy compares the EFIE entries of every pair involving one panel

@@ -123,19 +123,8 @@ func TestCompressedIntegrand(t *testing.T) {
 // tolerance spends a fifth of it), and every point must report its block's
 // rank.
 func TestCompressedEnergy(t *testing.T) {
-	bodies := pairScene(t, 3, 5)
-	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}, Centre: r3.Vec{Z: 5}}
-	ctx := context.Background()
 	set := Settings{Accuracy: 1e-3, Forces: true}
-	comp, err := Energies(ctx, bodies, sw, set)
-	if err != nil {
-		t.Fatal(err)
-	}
-	set.Dense = true
-	dense, err := Energies(ctx, bodies, sw, set)
-	if err != nil {
-		t.Fatal(err)
-	}
+	comp, dense := compressedAndDense(t, 3, 5, set)
 	for i := range comp {
 		c, d := comp[i], dense[i]
 		if rel := math.Abs(c.Energy/d.Energy - 1); rel > set.Accuracy {
@@ -253,19 +242,8 @@ func TestLooseness(t *testing.T) {
 // tolerances spend three tenths of it; measured 1e-5 to 3e-5 on
 // 500-triangle spheres).
 func TestCompressedEnergyNear(t *testing.T) {
-	bodies := pairScene(t, 4, 3)
-	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}, Centre: r3.Vec{Z: 3}}
-	ctx := context.Background()
 	set := Settings{Accuracy: 1e-3, Forces: true}
-	comp, err := Energies(ctx, bodies, sw, set)
-	if err != nil {
-		t.Fatal(err)
-	}
-	set.Dense = true
-	dense, err := Energies(ctx, bodies, sw, set)
-	if err != nil {
-		t.Fatal(err)
-	}
+	comp, dense := compressedAndDense(t, 4, 3, set)
 	c, d := comp[0], dense[0]
 	eRel, fRel := math.Abs(c.Energy/d.Energy-1), math.Abs(c.Force.Z/d.Force.Z-1)
 	t.Logf("energy error %.2g, force error %.2g, blocks %+v", eRel, fRel, c.Ranks)
@@ -275,4 +253,23 @@ func TestCompressedEnergyNear(t *testing.T) {
 	if c.Ranks[0].Compressed == 0 {
 		t.Errorf("blocks %+v, want compressed ones", c.Ranks)
 	}
+}
+
+// compressedAndDense computes one point of two spheres of the given mesh
+// level at centre distance L, with set as given and with Settings.Dense.
+func compressedAndDense(t *testing.T, level int, L float64, set Settings) (comp, dense []Point) {
+	t.Helper()
+	bodies := pairScene(t, level, L)
+	sw := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: []r3.Vec{{}}, Centre: r3.Vec{Z: L}}
+	ctx := context.Background()
+	comp, err := Energies(ctx, bodies, sw, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set.Dense = true
+	dense, err = Energies(ctx, bodies, sw, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return comp, dense
 }
