@@ -273,3 +273,41 @@ func compressedAndDense(t *testing.T, level int, L float64, set Settings) (comp,
 	}
 	return comp, dense
 }
+
+// TestHopeless checks the ACA's early give-up on synthetic term series
+// worked by hand from hopeless' comment: with terms 0.1·exp(-k/s) the rate
+// between the peaks of the last four terms and of four terms half as many
+// steps back is -1/s, so after k terms a block needs about
+// k + s·ln(0.1·e^(-(k-4)/s)/tol) terms in all. At tol 1e-6 and 32 terms that
+// is 292 for s = 25 and 695 for s = 60; against maxRank 120 (three times:
+// 360) the first goes on and the second is given up. Too few terms, terms
+// already below tol, and terms that do not fall are the other cases.
+func TestHopeless(t *testing.T) {
+	series := func(n int, s float64) []float64 {
+		out := make([]float64, n)
+		for k := range out {
+			out[k] = 0.1 * math.Exp(-float64(k)/s)
+		}
+		return out
+	}
+	flat := make([]float64, 40)
+	for k := range flat {
+		flat[k] = 0.05 + 0.01*float64(k%3)
+	}
+	for _, tc := range []struct {
+		name  string
+		terms []float64
+		tol   float64
+		want  bool
+	}{
+		{"slow but reachable", series(32, 25), 1e-6, false},
+		{"too slow", series(32, 60), 1e-6, true},
+		{"too few terms to judge", series(31, 60), 1e-6, false},
+		{"already converged", series(40, 60), 0.1, false},
+		{"no decay", flat, 1e-6, true},
+	} {
+		if got := hopeless(tc.terms, tc.tol, 120); got != tc.want {
+			t.Errorf("%s: hopeless = %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
