@@ -192,16 +192,6 @@ func expansionCoefs(e *expCoef, kappa, area, rx, ry, rz, r float64, es, et *expP
 	e.a0, e.a1, e.b0, e.b1 = f*a0, f*a1, f*b0, f*b1
 }
 
-// moments returns the expanded moments in the form of Quadrature.Moments.
-func (e *expCoef) moments(es, et *expPanel) Moments {
-	return Moments{
-		I0:  e.i0,
-		Ix:  r3.Add(r3.Scale(e.a0, es.p0), r3.Scale(e.a1, es.p1)),
-		Iy:  r3.Add(r3.Scale(e.b0, et.p0), r3.Scale(e.b1, et.p1)),
-		Ixy: e.ixy,
-	}
-}
-
 // expansionEntries sets dst to the EFIE entries (DESIGN §3) of a pair from
 // its expanded moments: X_kl = κ(Ixy - p_k·Iy - q_l·Ix + p_k·q_l I0) +
 // (4/κ) I0 times c_k c_l. Each term in p_k or q_l sums to zero over the

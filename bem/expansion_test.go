@@ -79,6 +79,17 @@ func TestExpPanelMoments(t *testing.T) {
 	}
 }
 
+// moments returns the expanded moments in the form of Quadrature.Moments,
+// for comparison with the product rules.
+func (e *expCoef) moments(es, et *expPanel) Moments {
+	return Moments{
+		I0:  e.i0,
+		Ix:  r3.Add(r3.Scale(e.a0, es.p0), r3.Scale(e.a1, es.p1)),
+		Iy:  r3.Add(r3.Scale(e.b0, et.p0), r3.Scale(e.b1, et.p1)),
+		Ixy: e.ixy,
+	}
+}
+
 // momentError returns the largest error of the moments got against want,
 // each scaled by its natural size relative to |I0| (Ix and Iy by h, Ixy by
 // h²), as the RWG entries weigh them.
