@@ -344,6 +344,11 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 		if err != nil {
 			return err
 		}
+		if refs := r.basisRefs(kappa); refs != nil {
+			if sf.basis, err = r.sys.buildCrossBasis(ctx, sf, refs); err != nil {
+				return err
+			}
+		}
 		for ; i < len(reqs) && reqs[i].kappa == kappa; i++ {
 			rq := reqs[i]
 			sys := r.sys
@@ -385,6 +390,34 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 		}
 	}
 	return nil
+}
+
+// basisRefs returns the reference placements of the sweep basis at κ
+// (basis.go): basisRefs points spread evenly over those of the sweep whose
+// cutoff admits κ, or nil when the scene is not two bodies in free space
+// with compression on, or fewer than basisMinPoints points admit κ. The
+// choice depends on the whole sweep only, never on which points a run
+// computes or has stored, so every shard and every resumed run builds the
+// same basis and computes a point alike.
+func (r *runner) basisRefs(kappa float64) []placement {
+	sys := r.sys
+	if !sys.compress.on || len(sys.surf) != 2 || sys.plane != nil || sys.mats != nil {
+		return nil
+	}
+	var admit []int
+	for i, d := range r.scale {
+		if kappa*d <= kappaCutoff {
+			admit = append(admit, i)
+		}
+	}
+	if len(admit) < basisMinPoints {
+		return nil
+	}
+	refs := make([]placement, basisRefs)
+	for j := range refs {
+		refs[j] = r.placementOf(admit[(j*(len(admit)-1)+(basisRefs-1)/2)/(basisRefs-1)], 0)
+	}
+	return refs
 }
 
 // maxLooseTolerance caps the block tolerance looseness may allow: a block

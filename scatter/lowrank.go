@@ -2,6 +2,7 @@ package scatter
 
 import (
 	"context"
+	"math"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
@@ -17,8 +18,9 @@ type BlockRank struct {
 	// Rank is the largest rank used at the frequencies where the block was
 	// compressed (0 when it never was).
 	Rank int
-	// Compressed and Dense count the evaluations of each kind.
-	Compressed, Dense int
+	// Compressed and Dense count the evaluations of each kind, Basis those
+	// of the compressed ones that went through the sweep basis.
+	Compressed, Dense, Basis int
 }
 
 // mergeRanks adds the records of one evaluation to those of a point.
@@ -30,6 +32,7 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 				to[k].Rank = max(to[k].Rank, f.Rank)
 				to[k].Compressed += f.Compressed
 				to[k].Dense += f.Dense
+				to[k].Basis += f.Basis
 				found = true
 				break
 			}
@@ -46,13 +49,29 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
 	if sys.compress.on {
-		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], sys.compress.tol)
+		lr, ok, hit := sf.basis.cached(pl, sys.compress.tol)
+		var err error
+		if !hit {
+			lr, ok, err = sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], sys.compress.tol)
+		}
 		if err != nil {
 			return evaluation{}, err
 		}
 		if ok {
-			ev, err := sys.evaluatePairLowRank(ctx, sf, surf, pl, grad, lr)
+			var fit *basisFit
+			if sf.basis != nil && lr.rank() > 0 {
+				_, size := surfacesClose(surf[0], surf[1])
+				tol := basisShare * scaledTolerance(sys.compress.tol, sf.kappa, size) * math.Sqrt(dot(lr.u.Data, lr.u.Data))
+				fit, err = sf.basis.fit(sys, sf, lr, tol)
+				if err != nil {
+					return evaluation{}, err
+				}
+			}
+			ev, err := sys.evaluatePairLowRank(ctx, sf, surf, pl, grad, lr, fit)
 			rec.Rank, rec.Compressed = lr.rank(), 1
+			if ev.viaBasis {
+				rec.Basis = 1
+			}
 			ev.ranks = []BlockRank{rec}
 			return ev, err
 		}
@@ -79,35 +98,65 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 // a rank-r product; its contraction with dM01/du is moved onto the cross of
 // the approximation (crossWeight), so the kernel derivatives are needed on
 // the pivot rows and columns only (bem.CrossGradientSparse).
-func (sys *system) evaluatePairLowRank(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, lr *lowRank) (evaluation, error) {
+//
+// With fit (the block expressed in a sweep basis, basis.go) the same
+// quantities come without the four O(N² r) triangular solves: RᵀR =
+// Uᵀ M00^-1 U and Δ = R (Vᵀ M11^-1 V) Rᵀ from the fit's Gram matrices
+// (basisFit.reduce), L0^-T Q = M00^-1 U R^-1 and the weight's second factor
+// M11^-1 V (C^-1 R)ᵀ from the whitened bases, O(N p r). A nil fit, or one
+// whose Gram matrix does not factor, takes the direct path.
+func (sys *system) evaluatePairLowRank(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, lr *lowRank, fit *basisFit) (evaluation, error) {
 	r := lr.rank()
 	if r == 0 {
 		return evaluation{}, nil // the block vanishes to the tolerance
 	}
-	ut := copyGeneral(lr.u)
-	solveLower(sf.f[0].l, ut, sys.threads) // Ũ = L0^-1 U, N0 × r
-	vt := copyGeneral(lr.v)
-	solveLower(sf.f[1].l, vt, sys.threads) // Ṽ = L1^-1 V, N1 × r
-	rr, q := qrInPlace(ut)                 // Ũ = Q R
-	y := blas64.General{Rows: r, Cols: vt.Rows, Stride: vt.Rows, Data: make([]float64, r*vt.Rows)}
-	blas64.Gemm(blas.NoTrans, blas.Trans, 1, blas64.General{Rows: r, Cols: r, Stride: r, Data: rr}, vt, 0, y)
-	delta := make([]float64, r*r)
-	lowerRankUpdate(delta, r, r, y, sys.threads) // Δ = Y Yᵀ
+	var rr, delta []float64
+	var y blas64.General // Y = R Ṽᵀ, direct path only
+	var q blas64.General // Q of Ũ = Q R, direct path only
+	ok := false
+	if fit != nil {
+		rr, delta, ok = fit.reduce(r)
+	}
+	if !ok {
+		fit = nil
+		ut := copyGeneral(lr.u)
+		solveLower(sf.f[0].l, ut, sys.threads) // Ũ = L0^-1 U, N0 × r
+		vt := copyGeneral(lr.v)
+		solveLower(sf.f[1].l, vt, sys.threads) // Ṽ = L1^-1 V, N1 × r
+		rr, q = qrInPlace(ut)                  // Ũ = Q R
+		y = blas64.General{Rows: r, Cols: vt.Rows, Stride: vt.Rows, Data: make([]float64, r*vt.Rows)}
+		blas64.Gemm(blas.NoTrans, blas.Trans, 1, blas64.General{Rows: r, Cols: r, Stride: r, Data: rr}, vt, 0, y)
+		delta = make([]float64, r*r)
+		lowerRankUpdate(delta, r, r, y, sys.threads) // Δ = Y Yᵀ
+	}
 	ld, err := logDetIMinus(delta, r, r, sys.threads)
 	if err != nil {
 		return evaluation{}, sys.checkPositive(sf.kappa, err)
 	}
-	ev := evaluation{logDet: ld}
+	ev := evaluation{logDet: ld, viaBasis: fit != nil}
 	if !grad {
 		return ev, nil
 	}
 	lc := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: r, Stride: r, Data: delta}
-	z := copyGeneral(y)
-	solveLowerInPlace(lc, z)
-	solveLowerTransInPlace(lc, z)        // C^-1 Y, r × N1
-	w := transpose(z)                    // N1 × r
-	solveLowerTransInPlace(sf.f[1].l, w) // (C^-1 Y L1^-1)ᵀ
-	solveLowerTransInPlace(sf.f[0].l, q) // L0^-T Q, N0 × r
+	var w blas64.General
+	if fit != nil {
+		// L0^-T Q = L0^-T Ũ R^-1 = Z0 C0 R^-1, and
+		// (C^-1 Y L1^-1)ᵀ = L1^-T Ṽ Rᵀ C^-1 = Z1 C1 (C^-1 R)ᵀ.
+		q = fit.inverse(0, nil)
+		blas64.Trsm(blas.Right, blas.NoTrans, 1, blas64.Triangular{Uplo: blas.Upper, Diag: blas.NonUnit, N: r, Stride: r, Data: rr}, q)
+		m := blas64.General{Rows: r, Cols: r, Stride: r, Data: append([]float64(nil), rr...)}
+		solveLowerInPlace(lc, m)
+		solveLowerTransInPlace(lc, m) // C^-1 R
+		mt := transpose(m)
+		w = fit.inverse(1, &mt)
+	} else {
+		z := copyGeneral(y)
+		solveLowerInPlace(lc, z)
+		solveLowerTransInPlace(lc, z)        // C^-1 Y, r × N1
+		w = transpose(z)                     // N1 × r
+		solveLowerTransInPlace(sf.f[1].l, w) // (C^-1 Y L1^-1)ᵀ
+		solveLowerTransInPlace(sf.f[0].l, q) // L0^-T Q, N0 × r
+	}
 	for i := range q.Data {
 		q.Data[i] = -q.Data[i] // H = A Bᵀ with A = -L0^-T Q, B = w
 	}

@@ -119,6 +119,9 @@ type selfFactors struct {
 	// blocks holds the assembled self blocks when a substrate needs them
 	// (planedirect.go).
 	blocks []*mat.SymDense
+	// basis is the sweep basis of a two-body sweep at this κ (basis.go),
+	// nil when the sweep has none.
+	basis *crossBasis
 }
 
 // factorSelf assembles and factors the self blocks at κ.
@@ -199,6 +202,9 @@ type evaluation struct {
 	grad [6]float64
 	// ranks records how the interaction blocks were handled.
 	ranks []BlockRank
+	// viaBasis tells that a compressed two-body block went through the
+	// sweep basis (basis.go).
+	viaBasis bool
 }
 
 // evaluate returns the integrand ln det[M M_∞^-1] at the κ of sf with the

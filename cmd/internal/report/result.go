@@ -147,8 +147,9 @@ type Point struct {
 	AddedFor string `json:"added_for,omitempty"`
 
 	// BlockRanks tells how each interaction block was handled: the largest
-	// rank where it was compressed, and how many frequency evaluations
-	// were compressed or dense.
+	// rank where it was compressed, how many frequency evaluations were
+	// compressed or dense, and how many of the compressed ones went through
+	// the sweep's shared basis.
 	BlockRanks []BlockRank `json:"block_ranks,omitempty"`
 
 	Samples []Sample `json:"samples"`
@@ -161,6 +162,7 @@ type BlockRank struct {
 	Rank       int    `json:"max_rank"`
 	Compressed int    `json:"compressed"`
 	Dense      int    `json:"dense"`
+	ViaBasis   int    `json:"via_sweep_basis"`
 }
 
 // Sample is one evaluation of the frequency integrand.
@@ -324,7 +326,7 @@ func point(s *job.Scene, p scatter.Point, forces bool) Point {
 		q.Samples[k] = Sample{KappaPerUnit: Float(smp.Kappa), Integrand: Float(smp.Value)}
 	}
 	for _, r := range p.Ranks {
-		q.BlockRanks = append(q.BlockRanks, BlockRank{Rows: r.Rows, Cols: r.Cols, Rank: r.Rank, Compressed: r.Compressed, Dense: r.Dense})
+		q.BlockRanks = append(q.BlockRanks, BlockRank{Rows: r.Rows, Cols: r.Cols, Rank: r.Rank, Compressed: r.Compressed, Dense: r.Dense, ViaBasis: r.Basis})
 	}
 	angles := j.Sweep.Kind() == job.ByAngles
 	if angles {

@@ -1,0 +1,397 @@
+package scatter
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/mat"
+)
+
+// This file holds the sweep basis of two-body sweeps (DESIGN §10): at one κ
+// the compressed interaction blocks M01(t) ≈ U(t) V(t)ᵀ of every placement t
+// of the sweep have their columns U(t) in nearly one subspace of body 0's
+// currents and V(t) in nearly one subspace of body 1's (the fields one body
+// sends to the other change slowly with the placement). With orthonormal
+// bases B0 (N0×p0) and B1 (N1×p1) of those subspaces, whitened once per κ,
+//
+//	W_i = L_i^-1 B_i,  Z_i = L_i^-T W_i = M_ii^-1 B_i,
+//
+// a point's U = B0 C0 and V = B1 C1 (C_i = B_iᵀ U or V, p_i×r) give the
+// whitened factors of the reduction as L0^-1 U = W0 C0 and L1^-1 V = W1 C1,
+// and the gradient's M00^-1 U = Z0 C0 and M11^-1 V = Z1 C1: O(N p r) work
+// per point in place of the four triangular solves, O(N² r), of the direct
+// low-rank path. Each point checks that its own U and V lie in the bases to
+// a sixth of its block tolerance and takes the direct path otherwise, so
+// the bases decide only the speed.
+
+// Sweep-basis parameters.
+const (
+	// basisMinPoints is the least number of sweep points that admit a κ
+	// (κ below their cutoff) for a basis to be built at that κ: below it the
+	// per-κ work (basisRefs compressions, four solves with p columns) is not
+	// won back.
+	basisMinPoints = 8
+	// basisRefs is the number of placements, spread over the sweep, whose
+	// compressed blocks span the bases.
+	basisRefs = 4
+	// basisKeep is the fraction of a reference block's tolerance (times
+	// its Frobenius norm) below which a direction is left out of a basis.
+	basisKeep = 1.0 / 30
+	// basisShare is the fraction of a point's block tolerance that the part
+	// of its U and V outside the bases may take; the compression's own
+	// error stays within the remaining 5/6 (ACA tol/3, recompression tol/2).
+	basisShare = 1.0 / 6
+)
+
+// sideBasis is the basis of one body's side of the interaction blocks at
+// one κ: B (N×p) with orthonormal columns and its transpose (so that both
+// Bᵀ X and B C are plain products: gonum's transposed Gemm kernel is
+// several times slower), W = L^-1 B and Z = M^-1 B (N×p).
+type sideBasis struct {
+	b, bt, w, z blas64.General
+	g           blas64.General // Wᵀ W = Bᵀ M^-1 B (p×p)
+}
+
+func (sb *sideBasis) size() int { return sb.bt.Rows }
+
+// crossBasis is the sweep basis of both sides at one κ, with the compressed
+// blocks of the reference placements it was built from.
+type crossBasis struct {
+	side [2]*sideBasis
+	tol  float64 // block tolerance the references were compressed to
+	refs map[placement]*lowRank
+}
+
+// buildCrossBasis compresses the interaction block at the reference
+// placements pls to the run's block tolerance and builds the bases of both
+// sides from them. It returns nil, without error, when no reference block
+// compresses.
+func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []placement) (*crossBasis, error) {
+	cb := &crossBasis{tol: sys.compress.tol, refs: map[placement]*lowRank{}}
+	var us, vs []blas64.General
+	var thr []float64
+	for _, pl := range pls {
+		surf, err := sys.surfacesAt(pl)
+		if err != nil {
+			return nil, err
+		}
+		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], sys.compress.tol)
+		if err != nil {
+			return nil, err
+		}
+		if !ok {
+			cb.refs[pl] = nil // the point's own evaluation goes dense
+			continue
+		}
+		cb.refs[pl] = lr
+		if lr.rank() == 0 {
+			continue
+		}
+		sigma := columnNorms(lr.u)
+		us = append(us, lr.u)
+		vs = append(vs, scaledColumns(lr.v, sigma))
+		_, size := surfacesClose(surf[0], surf[1])
+		thr = append(thr, basisKeep*scaledTolerance(sys.compress.tol, sf.kappa, size)*math.Sqrt(dot(sigma, sigma)))
+	}
+	if len(us) == 0 {
+		return nil, nil
+	}
+	for i, xs := range [][]blas64.General{us, vs} {
+		bt, err := spanOf(xs, thr)
+		if err != nil {
+			return nil, fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		}
+		sb := &sideBasis{b: transpose(bt), bt: bt}
+		sb.w = copyGeneral(sb.b)
+		solveLower(sf.f[i].l, sb.w, sys.threads)
+		sb.z = copyGeneral(sb.w)
+		solveLowerTransInPlace(sf.f[i].l, sb.z)
+		sb.g = product(transpose(sb.w), sb.w)
+		cb.side[i] = sb
+	}
+	return cb, nil
+}
+
+// spanOf returns, transposed (p×N), an orthonormal basis of the directions
+// of the N×k_i matrices xs whose singular values exceed thr[i] once the
+// directions of the earlier matrices are removed: block Gram–Schmidt with
+// two projections (so that the basis stays orthonormal to rounding) and the
+// residual's directions from the eigenvectors of its Gram matrix.
+func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
+	n := xs[0].Rows
+	bt := blas64.General{Rows: 0, Cols: n, Stride: n}
+	for i, x := range xs {
+		e := copyGeneral(x)
+		removeSpan(bt, e)
+		removeSpan(bt, e)
+		k := e.Cols
+		g := mat.NewSymDense(k, nil)
+		blas64.Syrk(blas.Trans, 1, e, 0, g.RawSymmetric())
+		var eig mat.EigenSym
+		if !eig.Factorize(g, true) {
+			return blas64.General{}, fmt.Errorf("eigen decomposition of a %d×%d Gram matrix did not converge", k, k)
+		}
+		vals := eig.Values(nil)
+		var vecs mat.Dense
+		eig.VectorsTo(&vecs)
+		var keep []int
+		for j := k - 1; j >= 0; j-- {
+			if vals[j] > thr[i]*thr[i] {
+				keep = append(keep, j)
+			}
+		}
+		if len(keep) == 0 {
+			continue
+		}
+		// New directions E v_j / sqrt(λ_j), made orthonormal to B and to
+		// each other once more.
+		sel := blas64.General{Rows: k, Cols: len(keep), Stride: len(keep), Data: make([]float64, k*len(keep))}
+		for c, j := range keep {
+			s := 1 / math.Sqrt(vals[j])
+			for r := 0; r < k; r++ {
+				sel.Data[r*sel.Stride+c] = vecs.At(r, j) * s
+			}
+		}
+		nw := blas64.General{Rows: n, Cols: len(keep), Stride: len(keep), Data: make([]float64, n*len(keep))}
+		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, e, sel, 0, nw)
+		removeSpan(bt, nw)
+		_, q := qrInPlace(nw)
+		qt := transpose(q)
+		bt.Data = append(bt.Data[:bt.Rows*n:bt.Rows*n], qt.Data...)
+		bt.Rows += qt.Rows
+	}
+	return bt, nil
+}
+
+// removeSpan overwrites x (N×k) with x - B Bᵀ x for the basis bt = Bᵀ.
+func removeSpan(bt, x blas64.General) {
+	if bt.Rows == 0 {
+		return
+	}
+	c := blas64.General{Rows: bt.Rows, Cols: x.Cols, Stride: x.Cols, Data: make([]float64, bt.Rows*x.Cols)}
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, bt, x, 0, c)
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, -1, transpose(bt), c, 1, x)
+}
+
+// fit expresses the compressed block lr in the bases: U = B0 C0 + E0 and
+// V = B1 C1 + E1 with C0 = B0ᵀ U, C1 = B1ᵀ V. The block's error from
+// leaving the residuals out is, to first order (Σ the column norms of U, V
+// orthonormal),
+//
+//	‖M - B0 C0 C1ᵀ B1ᵀ‖_F ≤ sqrt(‖E0‖²_F + ‖E1 Σ‖²_F),
+//
+// with ‖E‖² = ‖X‖² - ‖C‖² for orthonormal B. Within tol (an absolute
+// Frobenius norm) the residuals are dropped. Otherwise each side keeps the
+// leading directions of its residual, P = E v_k for the eigenvectors v_k of
+// the Gram matrix of E (of E Σ on side 1), until the dropped part is within
+// tol/√2 per side; they are whitened for this point alone (2N² per
+// direction, against 2N² per column of U for the direct path). The result
+// is exact to tol whatever the bases missed.
+func (cb *crossBasis) fit(sys *system, sf *selfFactors, lr *lowRank, tol float64) (*basisFit, error) {
+	sigma := columnNorms(lr.u)
+	f := &basisFit{cb: cb, sigma: sigma}
+	xs := [2]blas64.General{lr.u, scaledColumns(lr.v, sigma)}
+	var res [2]float64
+	for i, x := range xs {
+		f.c[i] = product(cb.side[i].bt, x)
+		res[i] = math.Max(0, dot(x.Data, x.Data)-dot(f.c[i].Data, f.c[i].Data))
+	}
+	unscale := make([]float64, len(sigma))
+	for k, s := range sigma {
+		unscale[k] = 1 / s
+	}
+	defer func() { f.c[1] = scaledColumns(f.c[1], unscale) }() // C1 was taken of V Σ
+	if res[0]+res[1] <= tol*tol {
+		return f, nil
+	}
+	for i, x := range xs {
+		e := copyGeneral(x)
+		blas64.Gemm(blas.NoTrans, blas.NoTrans, -1, cb.side[i].b, f.c[i], 1, e)
+		p, d, err := leading(e, tol*tol/2)
+		if err != nil {
+			return nil, fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		}
+		if p.Cols == 0 {
+			continue
+		}
+		if i == 1 {
+			d = scaledColumns(d, unscale) // E1 Σ ≈ P D: E1 ≈ P D Σ^-1
+		}
+		w := copyGeneral(p)
+		solveLower(sf.f[i].l, w, sys.threads)
+		z := copyGeneral(w)
+		solveLowerTransInPlace(sf.f[i].l, z)
+		f.extra[i] = &extraDirections{w: w, z: z, d: d, wtw: product(transpose(cb.side[i].w), w), ptp: product(transpose(w), w)}
+	}
+	return f, nil
+}
+
+// leading returns the directions of e (N×k) that carry all but at most
+// drop of its squared Frobenius norm: P = E V_k (N×e) and D = V_kᵀ (e×k),
+// so that e ≈ P D, with V_k the leading eigenvectors of eᵀe.
+func leading(e blas64.General, drop float64) (p, d blas64.General, err error) {
+	k := e.Cols
+	g := mat.NewSymDense(k, nil)
+	blas64.Syrk(blas.Trans, 1, e, 0, g.RawSymmetric())
+	var eig mat.EigenSym
+	if !eig.Factorize(g, true) {
+		return p, d, fmt.Errorf("eigen decomposition of a %d×%d Gram matrix did not converge", k, k)
+	}
+	vals := eig.Values(nil) // ascending
+	var vecs mat.Dense
+	eig.VectorsTo(&vecs)
+	tail, lo := 0.0, 0
+	for lo < k && tail+math.Max(vals[lo], 0) <= drop {
+		tail += math.Max(vals[lo], 0)
+		lo++
+	}
+	m := k - lo
+	vk := blas64.General{Rows: k, Cols: m, Stride: m, Data: make([]float64, k*m)}
+	for r := 0; r < k; r++ {
+		for c := 0; c < m; c++ {
+			vk.Data[r*m+c] = vecs.At(r, k-1-c)
+		}
+	}
+	p = blas64.General{Rows: e.Rows, Cols: m, Stride: m, Data: make([]float64, e.Rows*m)}
+	if m > 0 {
+		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, e, vk, 0, p)
+	}
+	return p, transpose(vk), nil
+}
+
+// columnNorms returns the Euclidean norms of the columns of a.
+func columnNorms(a blas64.General) []float64 {
+	s := make([]float64, a.Cols)
+	for i := 0; i < a.Rows; i++ {
+		for k, v := range a.Data[i*a.Stride : i*a.Stride+a.Cols] {
+			s[k] += v * v
+		}
+	}
+	for k := range s {
+		s[k] = math.Sqrt(s[k])
+	}
+	return s
+}
+
+// scaledColumns returns a copy of a with column k multiplied by s[k].
+func scaledColumns(a blas64.General, s []float64) blas64.General {
+	c := copyGeneral(a)
+	for i := 0; i < c.Rows; i++ {
+		row := c.Data[i*c.Stride : i*c.Stride+c.Cols]
+		for k := range row {
+			row[k] *= s[k]
+		}
+	}
+	return c
+}
+
+// basisFit is a compressed block expressed in a sweep basis: on side i
+// (0: U, 1: V) the block's factor is B_i c[i] plus, where the basis missed
+// part of it, this point's own directions P_i d_i.
+type basisFit struct {
+	cb    *crossBasis
+	c     [2]blas64.General
+	extra [2]*extraDirections
+	sigma []float64 // column norms of U
+}
+
+// extraDirections are a point's own directions P (N×e) outside a basis,
+// whitened (W_P = L^-1 P, Z_P = M^-1 P), with their coefficients d (e×r)
+// and the Gram blocks Wᵀ W_P (p×e) and W_Pᵀ W_P (e×e).
+type extraDirections struct {
+	w, z, d  blas64.General
+	wtw, ptp blas64.General
+}
+
+// gram returns Xᵀ M_ii^-1 X (r×r) for side i's factor X, with the columns
+// of c and d scaled by s when s is not nil:
+//
+//	cᵀ G c + cᵀ (Wᵀ W_P) d + dᵀ (W_Pᵀ W) c + dᵀ (W_Pᵀ W_P) d.
+func (f *basisFit) gram(i int, s []float64) blas64.General {
+	c := f.c[i]
+	if s != nil {
+		c = scaledColumns(c, s)
+	}
+	out := product(transpose(c), product(f.cb.side[i].g, c))
+	if x := f.extra[i]; x != nil {
+		d := x.d
+		if s != nil {
+			d = scaledColumns(d, s)
+		}
+		cross := product(transpose(c), product(x.wtw, d)) // cᵀ (Wᵀ W_P) d
+		dd := product(transpose(d), product(x.ptp, d))
+		for a := 0; a < out.Rows; a++ {
+			for b := 0; b < out.Cols; b++ {
+				out.Data[a*out.Stride+b] += cross.Data[a*cross.Stride+b] + cross.Data[b*cross.Stride+a] + dd.Data[a*dd.Stride+b]
+			}
+		}
+	}
+	return out
+}
+
+// inverse returns M_ii^-1 times side i's factor, times g (r×k) when g is
+// not nil: Z c g (+ Z_P d g).
+func (f *basisFit) inverse(i int, g *blas64.General) blas64.General {
+	times := func(c blas64.General) blas64.General {
+		if g == nil {
+			return c
+		}
+		return product(c, *g)
+	}
+	out := product(f.cb.side[i].z, times(f.c[i]))
+	if x := f.extra[i]; x != nil {
+		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, x.z, times(x.d), 1, out)
+	}
+	return out
+}
+
+// reduce returns the triangular factor R (r×r, upper, row major) with
+// RᵀR = Uᵀ M00^-1 U and Δ = R (Vᵀ M11^-1 V) Rᵀ of the low-rank reduction
+// (evaluatePairLowRank), from the r×r Gram matrices of the fit. The Gram
+// matrix of side 0 is taken of U Σ^-1, whose columns have unit norm, and
+// factored as R̂ᵀR̂, R = R̂ Σ: that keeps its condition number that of M00
+// rather than its square times that of Σ². It reports false when the
+// factorisation fails (the caller then takes the direct path).
+func (f *basisFit) reduce(r int) (rr, delta []float64, ok bool) {
+	inv := make([]float64, r)
+	for k, s := range f.sigma {
+		inv[k] = 1 / s
+	}
+	a0 := f.gram(0, inv)
+	if _, ok := choleskyLower(a0.Data, r, a0.Stride); !ok {
+		return nil, nil, false
+	}
+	rr = make([]float64, r*r)
+	for a := 0; a < r; a++ {
+		for b := a; b < r; b++ {
+			rr[a*r+b] = a0.Data[b*a0.Stride+a] * f.sigma[b] // R = L̂ᵀ Σ
+		}
+	}
+	rg := blas64.General{Rows: r, Cols: r, Stride: r, Data: rr}
+	d := product(rg, product(f.gram(1, nil), transpose(rg)))
+	return rr, d.Data, true
+}
+
+// product returns a b.
+func product(a, b blas64.General) blas64.General {
+	out := blas64.General{Rows: a.Rows, Cols: b.Cols, Stride: b.Cols, Data: make([]float64, a.Rows*b.Cols)}
+	if a.Rows > 0 && b.Cols > 0 && a.Cols > 0 {
+		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, a, b, 0, out)
+	}
+	return out
+}
+
+// cached returns the compressed block of a reference placement as
+// compressCross returned it when the reference was compressed to tol (ok
+// false for a block that did not compress), and hit false otherwise (and
+// for a nil basis).
+func (cb *crossBasis) cached(pl placement, tol float64) (lr *lowRank, ok, hit bool) {
+	if cb == nil || cb.tol != tol {
+		return nil, false, false
+	}
+	lr, hit = cb.refs[pl]
+	return lr, lr != nil, hit
+}

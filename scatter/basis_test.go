@@ -1,0 +1,231 @@
+package scatter
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"testing"
+
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// TestSpanOf checks the basis construction on matrices whose columns lie in
+// a known 12-dimensional subspace of R^200, plus noise of norm 1e-9 per
+// column: the basis must come out orthonormal (BᵀB = I to 1e-12, rounding
+// of a few hundred products), with 12 directions at a threshold of 1e-6
+// (above the noise, below every direction of the subspace), and every
+// input column must lie in it up to the noise; gonum's SVD of the
+// residual is the reference.
+func TestSpanOf(t *testing.T) {
+	const n, q = 200, 12
+	rng := rand.New(rand.NewPCG(1, 2))
+	var qr mat.QR
+	basis := mat.NewDense(n, q, nil)
+	for i := 0; i < n; i++ {
+		for j := 0; j < q; j++ {
+			basis.Set(i, j, rng.NormFloat64())
+		}
+	}
+	qr.Factorize(basis)
+	var ortho mat.Dense
+	qr.QTo(&ortho)
+	sub := ortho.Slice(0, n, 0, q)
+	var xs []blas64.General
+	var thr []float64
+	for _, k := range []int{5, 9, 7} {
+		c := mat.NewDense(q, k, nil)
+		for i := 0; i < q; i++ {
+			for j := 0; j < k; j++ {
+				if i < 4+k { // the first input spans 9 of the 12 directions
+					c.Set(i, j, rng.NormFloat64())
+				}
+			}
+		}
+		var x mat.Dense
+		x.Mul(sub, c)
+		for i := 0; i < n; i++ {
+			for j := 0; j < k; j++ {
+				x.Set(i, j, x.At(i, j)+1e-9/math.Sqrt(n)*rng.NormFloat64())
+			}
+		}
+		xs = append(xs, mat.DenseCopyOf(&x).RawMatrix())
+		thr = append(thr, 1e-6)
+	}
+	bt, err := spanOf(xs, thr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if bt.Rows != q {
+		t.Fatalf("basis of %d directions, want %d", bt.Rows, q)
+	}
+	b := fromGeneral(bt)
+	var g mat.Dense
+	g.Mul(b, b.T())
+	for i := 0; i < q; i++ {
+		for j := 0; j < q; j++ {
+			want := 0.0
+			if i == j {
+				want = 1
+			}
+			if d := math.Abs(g.At(i, j) - want); d > 1e-12 {
+				t.Fatalf("BᵀB[%d,%d] = %.15g, want %g", i, j, g.At(i, j), want)
+			}
+		}
+	}
+	for k, x := range xs {
+		e := copyGeneral(x)
+		removeSpan(bt, e)
+		var svd mat.SVD
+		svd.Factorize(fromGeneral(e), mat.SVDNone)
+		if s := svd.Values(nil)[0]; s > 1e-8 {
+			t.Errorf("input %d: largest singular value outside the basis %.3g, want ≤ 1e-8 (the noise)", k, s)
+		}
+	}
+}
+
+// TestBasisIntegrand compares the two-body integrand and its gradient
+// evaluated through a sweep basis with the dense path, at accuracy 1e-3 and
+// with the criterion of TestCompressedIntegrand (a fifth of the accuracy
+// for the value and for every gradient component relative to the axial
+// one): two 320-triangle spheres at gaps 2 to 4 radii, the basis built from
+// four placements spread over the sweep, points between them. A second
+// basis built only from the two farthest placements misses part of the
+// closest point's block: there the point's own directions must make up for
+// it (the fit reports them) and the result must stay as accurate.
+func TestBasisIntegrand(t *testing.T) {
+	const accuracy = 1e-3
+	bodies := pairScene(t, 4, 4)
+	sys, err := newSystem(bodies, 1, 0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	at := func(z float64) placement {
+		return placement{offset: r3.Vec{Z: z}, centre: r3.Vec{Z: 4 + z}}
+	}
+	spread := []placement{at(0), at(2.0 / 3), at(4.0 / 3), at(2)}
+	far := []placement{at(5.0 / 3), at(2)}
+	for _, tc := range []struct {
+		name  string
+		refs  []placement
+		point float64
+		extra bool // the fit needs the point's own directions
+	}{
+		{"between references", spread, 1.0 / 3, false},
+		{"between references", spread, 1, false},
+		{"outside the references", far, 0, true},
+	} {
+		for _, kappa := range []float64{0.05, 0.5, 2} {
+			sf, err := sys.factorSelf(ctx, kappa)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pl := at(tc.point)
+			sys.compress = compression{}
+			dense, err := sys.evaluate(ctx, sf, pl, true)
+			if err != nil {
+				t.Fatal(err)
+			}
+			sys.compress = newCompression(Settings{Accuracy: accuracy})
+			if sf.basis, err = sys.buildCrossBasis(ctx, sf, tc.refs); err != nil || sf.basis == nil {
+				t.Fatalf("κ=%g: no basis (error %v)", kappa, err)
+			}
+			comp, err := sys.evaluate(ctx, sf, pl, true)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(comp.ranks) != 1 || comp.ranks[0].Basis != 1 {
+				t.Fatalf("%s, κ=%g: ranks %+v, want one block through the basis", tc.name, kappa, comp.ranks)
+			}
+			// The fit on its own: did it need the point's directions?
+			surf, _ := sys.surfacesAt(pl)
+			lr, _, _ := sys.compressCross(ctx, sf.op, kappa, surf[0], surf[1], sys.compress.tol)
+			_, size := surfacesClose(surf[0], surf[1])
+			fit, err := sf.basis.fit(sys, sf, lr, basisShare*scaledTolerance(sys.compress.tol, kappa, size)*math.Sqrt(dot(lr.u.Data, lr.u.Data)))
+			if err != nil {
+				t.Fatal(err)
+			}
+			extra := fit.extra[0] != nil || fit.extra[1] != nil
+			rel := math.Abs(comp.logDet/dense.logDet - 1)
+			worst := 0.0
+			for i := range comp.grad {
+				worst = math.Max(worst, math.Abs(comp.grad[i]-dense.grad[i])/math.Abs(dense.grad[2]))
+			}
+			t.Logf("%s, offset %.3g, κ=%g: basis %d+%d, own directions %v, integrand error %.2g, gradient error %.2g",
+				tc.name, tc.point, kappa, sf.basis.side[0].size(), sf.basis.side[1].size(), extra, rel, worst)
+			if tc.extra && !extra {
+				t.Errorf("%s, κ=%g: the fit found the point inside a basis built from the far placements only", tc.name, kappa)
+			}
+			if rel > accuracy/5 {
+				t.Errorf("%s, κ=%g: integrand %.8g through the basis, %.8g dense (relative %.2g)", tc.name, kappa, comp.logDet, dense.logDet, rel)
+			}
+			if worst > accuracy/5 {
+				t.Errorf("%s, κ=%g: gradient %.8g through the basis, %.8g dense (error %.2g of the axial component)", tc.name, kappa, comp.grad, dense.grad, worst)
+			}
+		}
+	}
+}
+
+// TestBasisShardsAlike checks that a sweep long enough for the sweep basis
+// (8 points of two 180-triangle spheres at gaps 3 to 4.4 radii, forces)
+// gives every point exactly (every bit) alike whether the whole sweep runs,
+// or disjoint shards of its points, or a run stopped part-way and resumed
+// from its store: the basis depends on the whole sweep only. Tolerance:
+// none (exact equality). It also checks that the basis was used.
+func TestBasisShardsAlike(t *testing.T) {
+	if testing.Short() {
+		t.Skip("solver runs")
+	}
+	bodies := pairScene(t, 3, 5)
+	var offs []r3.Vec
+	for i := 0; i < basisMinPoints; i++ {
+		offs = append(offs, r3.Vec{Z: 0.2 * float64(i)})
+	}
+	sweep := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: offs, Centre: r3.Vec{Z: 5}}
+	set := Settings{Accuracy: 1e-3, Forces: true}
+	ctx := context.Background()
+	whole, err := Energies(ctx, bodies, sweep, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	used := 0
+	for _, p := range whole {
+		for _, r := range p.Ranks {
+			used += r.Basis
+		}
+	}
+	if used == 0 {
+		t.Fatalf("no evaluation went through the sweep basis: %+v", whole[0].Ranks)
+	}
+	for _, own := range [][]int{{0, 2, 4, 6}, {1, 3, 5, 7}} {
+		part := set
+		part.Points = own
+		got, err := Energies(ctx, bodies, sweep, part)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range own {
+			if !reflect.DeepEqual(got[p], whole[p]) {
+				t.Errorf("points %v: point %d differs from the whole run:\n%+v\n%+v", own, p, got[p], whole[p])
+			}
+		}
+	}
+	st := newMemStore()
+	stopped := set
+	stopped.Store = st
+	st.failAfter = 60
+	if _, err := Energies(ctx, bodies, sweep, stopped); err == nil {
+		t.Fatal("the stopped run did not stop")
+	}
+	st.failAfter = 0
+	resumed, err := Energies(ctx, bodies, sweep, stopped)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(resumed, whole) {
+		t.Errorf("resumed results differ from the uninterrupted run:\n%+v\n%+v", resumed[0], whole[0])
+	}
+}
