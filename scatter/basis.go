@@ -385,13 +385,19 @@ func product(a, b blas64.General) blas64.General {
 }
 
 // cached returns the compressed block of a reference placement as
-// compressCross returned it when the reference was compressed to tol (ok
-// false for a block that did not compress), and hit false otherwise (and
-// for a nil basis).
+// compressCross returned it (ok false for a block that did not compress),
+// for a point whose block tolerance tol is the references' or looser (a
+// node that carries a small share of the integral): the tighter block only
+// adds accuracy, and which points reuse it depends on the sweep alone. A
+// block that did not compress to the references' tolerance is a hit only at
+// that tolerance. hit is false otherwise, and for a nil basis.
 func (cb *crossBasis) cached(pl placement, tol float64) (lr *lowRank, ok, hit bool) {
-	if cb == nil || cb.tol != tol {
+	if cb == nil || cb.tol > tol {
 		return nil, false, false
 	}
 	lr, hit = cb.refs[pl]
+	if lr == nil && cb.tol != tol {
+		return nil, false, false // the looser tolerance may still compress
+	}
 	return lr, lr != nil, hit
 }
