@@ -3,6 +3,7 @@ package scatter
 import (
 	"context"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"gonum.org/v1/gonum/blas"
@@ -278,8 +279,9 @@ func compressedAndDense(t *testing.T, level int, L float64, set Settings) (comp,
 // worked by hand from hopeless' comment: with terms 0.1·exp(-k/s) the rate
 // between the peaks of the last four terms and of four terms half as many
 // steps back is -1/s, so after k terms a block needs about
-// k + s·ln(0.1·e^(-(k-4)/s)/tol) terms in all. At tol 1e-6 and 32 terms that
-// is 292 for s = 25 and 695 for s = 60; against maxRank 120 (three times:
+// k + s·ln(0.1·e^(-(k-4)/s)/tol) = 4 + s·ln(0.1/tol) terms in all, whatever
+// k. At tol 1e-6 that is 292 for s = 25 and 695 for s = 60, judged at
+// minJudged terms; against maxRank 120 (three times:
 // 360) the first goes on and the second is given up. Too few terms, terms
 // already below tol, and terms that do not fall are the other cases.
 func TestHopeless(t *testing.T) {
@@ -290,7 +292,7 @@ func TestHopeless(t *testing.T) {
 		}
 		return out
 	}
-	flat := make([]float64, 40)
+	flat := make([]float64, minJudged+8)
 	for k := range flat {
 		flat[k] = 0.05 + 0.01*float64(k%3)
 	}
@@ -300,14 +302,84 @@ func TestHopeless(t *testing.T) {
 		tol   float64
 		want  bool
 	}{
-		{"slow but reachable", series(32, 25), 1e-6, false},
-		{"too slow", series(32, 60), 1e-6, true},
-		{"too few terms to judge", series(31, 60), 1e-6, false},
-		{"already converged", series(40, 60), 0.1, false},
+		{"slow but reachable", series(minJudged, 25), 1e-6, false},
+		{"too slow", series(minJudged, 60), 1e-6, true},
+		{"too few terms to judge", series(minJudged-1, 60), 1e-6, false},
+		{"already converged", series(minJudged+8, 60), 0.1, false},
 		{"no decay", flat, 1e-6, true},
 	} {
 		if got := hopeless(tc.terms, tc.tol, 120); got != tc.want {
 			t.Errorf("%s: hopeless = %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
+
+// TestRecompressGram checks the Gram route of the recompression against
+// gonum's SVD of the full sum: 200 random terms of 1920 entries falling by
+// e^(-k/20) (as ACA terms fall), truncated at 1e-5. The result must keep
+// the rank the singular values call for (the dropped tail within 1e-5 of
+// the Frobenius norm, the next one not), differ from the sum by at most
+// 1e-5 of its norm (plus rounding), and have V orthonormal to 1e-5 (the
+// eigenvectors of the smallest kept directions carry an error of order
+// ε σ₁²/σ² ≈ 1e-7 here).
+func TestRecompressGram(t *testing.T) {
+	const n, k, tol = 1920, 200, 1e-5
+	rng := rand.New(rand.NewPCG(3, 4))
+	us, vs := make([][]float64, k), make([][]float64, k)
+	gu, gv := make([][]float64, k), make([][]float64, k)
+	for j := range us {
+		us[j], vs[j] = make([]float64, n), make([]float64, n)
+		s := math.Exp(-float64(j) / 20)
+		for i := range us[j] {
+			us[j][i], vs[j][i] = s*rng.NormFloat64(), rng.NormFloat64()
+		}
+		gu[j], gv[j] = make([]float64, j+1), make([]float64, j+1)
+		for l := 0; l <= j; l++ {
+			gu[j][l], gv[j][l] = dot(us[j], us[l]), dot(vs[j], vs[l])
+		}
+	}
+	full := mat.NewDense(n, n, nil)
+	for j := range us {
+		full.RankOne(full, 1, mat.NewVecDense(n, us[j]), mat.NewVecDense(n, vs[j]))
+	}
+	var svd mat.SVD
+	if !svd.Factorize(full, mat.SVDNone) {
+		t.Fatal("reference SVD failed")
+	}
+	sv := svd.Values(nil)
+	total := 0.0
+	for _, s := range sv {
+		total += s * s
+	}
+	want, tail := len(sv), 0.0
+	for want > 1 && tail+sv[want-1]*sv[want-1] <= tol*tol*total {
+		tail += sv[want-1] * sv[want-1]
+		want--
+	}
+	lr, ok := recompressGram(us, vs, gu, gv, n, n, tol)
+	if !ok {
+		t.Fatal("the Gram route failed on well-conditioned terms")
+	}
+	if lr.rank() != want {
+		t.Errorf("rank %d, want %d from the singular values", lr.rank(), want)
+	}
+	approx := mat.NewDense(n, n, nil)
+	blas64.Gemm(blas.NoTrans, blas.Trans, 1, lr.u, lr.v, 0, approx.RawMatrix())
+	approx.Sub(approx, full)
+	if rel := mat.Norm(approx, 2) / math.Sqrt(total); rel > 1.01*tol {
+		t.Errorf("relative error %.3g, want ≤ %g", rel, tol)
+	}
+	var vtv mat.Dense
+	vtv.Mul(fromGeneral(lr.v).T(), fromGeneral(lr.v))
+	for i := 0; i < lr.rank(); i++ {
+		for j := 0; j < lr.rank(); j++ {
+			d := vtv.At(i, j)
+			if i == j {
+				d--
+			}
+			if math.Abs(d) > 1e-5 {
+				t.Fatalf("VᵀV[%d,%d] off by %.3g", i, j, d)
+			}
 		}
 	}
 }
