@@ -23,9 +23,10 @@ import (
 // whitened factors of the reduction as L0^-1 U = W0 C0 and L1^-1 V = W1 C1,
 // and the gradient's M00^-1 U = Z0 C0 and M11^-1 V = Z1 C1: O(N p r) work
 // per point in place of the four triangular solves, O(N² r), of the direct
-// low-rank path. Each point checks that its own U and V lie in the bases to
-// a sixth of its block tolerance and takes the direct path otherwise, so
-// the bases decide only the speed.
+// low-rank path. Each point checks how much of its own U and V lies outside
+// the bases; beyond a sixth of its block tolerance it whitens the leading
+// directions of that part for itself (crossBasis.fit), so the bases
+// decide only the speed, never the accuracy.
 
 // Sweep-basis parameters.
 const (
@@ -352,8 +353,8 @@ func (f *basisFit) inverse(i int, g *blas64.General) blas64.General {
 // RᵀR = Uᵀ M00^-1 U and Δ = R (Vᵀ M11^-1 V) Rᵀ of the low-rank reduction
 // (evaluatePairLowRank), from the r×r Gram matrices of the fit. The Gram
 // matrix of side 0 is taken of U Σ^-1, whose columns have unit norm, and
-// factored as R̂ᵀR̂, R = R̂ Σ: that keeps its condition number that of M00
-// rather than its square times that of Σ². It reports false when the
+// factored as R̂ᵀR̂, R = R̂ Σ: its condition number is then about that of
+// M00, not that times the condition number of Σ². It reports false when the
 // factorisation fails (the caller then takes the direct path).
 func (f *basisFit) reduce(r int) (rr, delta []float64, ok bool) {
 	inv := make([]float64, r)

@@ -46,6 +46,10 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 
 // evaluateTwo is the two-body integrand, from the compressed interaction
 // block when it is numerically low rank and from the dense one otherwise.
+// With a sweep basis at this κ (sf.basis) the block of a reference
+// placement is taken from it, and the compressed block goes through the
+// basis (crossBasis.fit) with a sixth of its tolerance for what the basis
+// misses.
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
 	if sys.compress.on {
