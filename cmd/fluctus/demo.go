@@ -27,7 +27,7 @@ sphere of radius 10 nm (a metal nanobead at the tip of a nanotube cantilever of
 30 nm x 30 nm x 5 nm, to gaps of 20, 15 and 12 nm. It computes the energy, the
 force and the stiffness at each gap and decides whether the bead sticks to the
 pad, adding the gaps the sticking analysis asks for. The meshes are graded and
-coarse (under 250 triangles per body), so the demo finishes in about a minute;
+coarse (under 250 triangles per body), so the demo finishes in under a minute;
 use "fluctus run" with finer meshes for numbers you rely on. Its job file is
 printed by "fluctus demo --print-job".
 
