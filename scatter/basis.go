@@ -133,15 +133,10 @@ func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
 		removeSpan(bt, e)
 		removeSpan(bt, e)
 		k := e.Cols
-		g := mat.NewSymDense(k, nil)
-		blas64.Syrk(blas.Trans, 1, e, 0, g.RawSymmetric())
-		var eig mat.EigenSym
-		if !eig.Factorize(g, true) {
-			return blas64.General{}, fmt.Errorf("eigen decomposition of a %d×%d Gram matrix did not converge", k, k)
+		vals, vecs, err := gramEigen(e)
+		if err != nil {
+			return blas64.General{}, err
 		}
-		vals := eig.Values(nil)
-		var vecs mat.Dense
-		eig.VectorsTo(&vecs)
 		var keep []int
 		for j := k - 1; j >= 0; j-- {
 			if vals[j] > thr[i]*thr[i] {
@@ -188,8 +183,8 @@ func removeSpan(bt, x blas64.General) {
 //
 //	‖M - B0 C0 C1ᵀ B1ᵀ‖_F ≤ sqrt(‖E0‖²_F + ‖E1 Σ‖²_F),
 //
-// with ‖E‖² = ‖X‖² - ‖C‖² for orthonormal B. Within tol (an absolute
-// Frobenius norm) the residuals are dropped. Otherwise each side keeps the
+// with ‖E‖² = ‖X‖² - ‖C‖² for orthonormal B. Within tol times ‖U‖_F (the
+// block's norm, V orthonormal) the residuals are dropped. Otherwise each side keeps the
 // leading directions of its residual, P = E v_k for the eigenvectors v_k of
 // the Gram matrix of E (of E Σ on side 1), until the dropped part is within
 // tol/√2 per side; they are whitened for this point alone (2N² per
@@ -197,6 +192,7 @@ func removeSpan(bt, x blas64.General) {
 // is exact to tol whatever the bases missed.
 func (cb *crossBasis) fit(sys *system, sf *selfFactors, lr *lowRank, tol float64) (*basisFit, error) {
 	sigma := columnNorms(lr.u)
+	tol *= math.Sqrt(dot(sigma, sigma))
 	f := &basisFit{cb: cb, sigma: sigma}
 	xs := [2]blas64.General{lr.u, scaledColumns(lr.v, sigma)}
 	var res [2]float64
@@ -239,15 +235,10 @@ func (cb *crossBasis) fit(sys *system, sf *selfFactors, lr *lowRank, tol float64
 // so that e ≈ P D, with V_k the leading eigenvectors of eᵀe.
 func leading(e blas64.General, drop float64) (p, d blas64.General, err error) {
 	k := e.Cols
-	g := mat.NewSymDense(k, nil)
-	blas64.Syrk(blas.Trans, 1, e, 0, g.RawSymmetric())
-	var eig mat.EigenSym
-	if !eig.Factorize(g, true) {
-		return p, d, fmt.Errorf("eigen decomposition of a %d×%d Gram matrix did not converge", k, k)
+	vals, vecs, err := gramEigen(e)
+	if err != nil {
+		return p, d, err
 	}
-	vals := eig.Values(nil) // ascending
-	var vecs mat.Dense
-	eig.VectorsTo(&vecs)
 	tail, lo := 0.0, 0
 	for lo < k && tail+math.Max(vals[lo], 0) <= drop {
 		tail += math.Max(vals[lo], 0)
@@ -265,6 +256,21 @@ func leading(e blas64.General, drop float64) (p, d blas64.General, err error) {
 		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, e, vk, 0, p)
 	}
 	return p, transpose(vk), nil
+}
+
+// gramEigen returns the eigenvalues (ascending) and eigenvectors (columns)
+// of the Gram matrix eᵀe of the N×k matrix e.
+func gramEigen(e blas64.General) ([]float64, *mat.Dense, error) {
+	k := e.Cols
+	g := mat.NewSymDense(k, nil)
+	blas64.Syrk(blas.Trans, 1, e, 0, g.RawSymmetric())
+	var eig mat.EigenSym
+	if !eig.Factorize(g, true) {
+		return nil, nil, fmt.Errorf("eigen decomposition of a %d×%d Gram matrix did not converge", k, k)
+	}
+	vecs := &mat.Dense{}
+	eig.VectorsTo(vecs)
+	return eig.Values(nil), vecs, nil
 }
 
 // columnNorms returns the Euclidean norms of the columns of a.

@@ -146,7 +146,7 @@ func TestBasisIntegrand(t *testing.T) {
 			surf, _ := sys.surfacesAt(pl)
 			lr, _, _ := sys.compressCross(ctx, sf.op, kappa, surf[0], surf[1], sys.compress.tol)
 			_, size := surfacesClose(surf[0], surf[1])
-			fit, err := sf.basis.fit(sys, sf, lr, basisShare*scaledTolerance(sys.compress.tol, kappa, size)*math.Sqrt(dot(lr.u.Data, lr.u.Data)))
+			fit, err := sf.basis.fit(sys, sf, lr, basisShare*scaledTolerance(sys.compress.tol, kappa, size))
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -249,9 +249,9 @@ func (sys *system) aca(ctx context.Context, op bem.Operator, a, b *bem.Surface, 
 const minJudged = 96
 
 // hopeless reports whether the relative term sizes of an ACA so far (at
-// least minJudged terms) predict that tol is out of reach within maxRank terms. The
-// terms of a block that is numerically low rank fall roughly geometrically;
-// the rate is taken between the largest of the last four terms and the
+// least minJudged terms) predict that tol is out of reach within maxRank
+// terms. The terms of a block that is numerically low rank fall roughly
+// geometrically; the rate is taken between the largest of the last four terms and the
 // largest of four terms half as many steps back (maxima smooth the
 // pivoting's noise), and the block is given up when that rate needs more
 // than three times maxRank terms in all — the work of the remaining steps
@@ -292,6 +292,9 @@ func hopeless(terms []float64, tol float64, maxRank int) bool {
 // matrices the ACA recorded in sk and, should one not factor, the
 // Householder one (recompressQR).
 func recompress(us, vs [][]float64, sk *skeleton, m, n int, tol float64) (*lowRank, error) {
+	if len(us) == 0 {
+		return &lowRank{u: blas64.General{Rows: m, Stride: 1}, v: blas64.General{Rows: n, Stride: 1}}, nil
+	}
 	if lr, ok := recompressGram(us, vs, sk.gu, sk.gv, m, n, tol); ok {
 		return lr, nil
 	}
@@ -308,19 +311,15 @@ func recompress(us, vs [][]float64, sk *skeleton, m, n int, tol float64) (*lowRa
 // matrices come free with the ACA, the two final products are plain Gemms
 // (2(m+n)r·keep flops) and the symmetric eigenproblem is several times
 // cheaper than the SVD, where the Householder route spends 8(m+n)r² in
-// panel updates. Whatever
-// the accuracy of the eigenvectors of the dropped part, U Vᵀ is Qu W Wᵀ K
-// Qvᵀ, the projection of the sum on the kept directions, so the error is
+// panel updates. Whatever the accuracy of the eigenvectors of the dropped
+// part, U Vᵀ is Qu W Wᵀ K Qvᵀ, the projection of the sum on the kept directions, so the error is
 // the dropped tail. The unit columns keep the Gram matrices' condition
 // numbers those of the terms' directions (the terms themselves fall by the
 // tolerance); it reports false when one does not factor.
 func recompressGram(us, vs, gu, gv [][]float64, m, n int, tol float64) (*lowRank, bool) {
 	r := len(us)
-	if len(gu) != r || len(gv) != r {
+	if r == 0 || len(gu) != r || len(gv) != r {
 		return nil, false
-	}
-	if r == 0 {
-		return &lowRank{u: blas64.General{Rows: m, Stride: 1}, v: blas64.General{Rows: n, Stride: 1}}, true
 	}
 	pack := func(cols [][]float64, rows int) (blas64.General, []float64) {
 		a := blas64.General{Rows: rows, Cols: r, Stride: r, Data: make([]float64, rows*r)}
@@ -418,9 +417,6 @@ func recompressGram(us, vs, gu, gv [][]float64, m, n int, tol float64) (*lowRank
 // V = Qv Z truncated.
 func recompressQR(us, vs [][]float64, m, n int, tol float64) (*lowRank, error) {
 	r := len(us)
-	if r == 0 {
-		return &lowRank{u: blas64.General{Rows: m, Stride: 1}, v: blas64.General{Rows: n, Stride: 1}}, nil
-	}
 	qu, ru := thinQR(us, m)
 	qv, rv := thinQR(vs, n)
 	core := mat.NewDense(r, r, nil)

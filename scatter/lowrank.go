@@ -2,7 +2,6 @@ package scatter
 
 import (
 	"context"
-	"math"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
@@ -65,8 +64,7 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 			var fit *basisFit
 			if sf.basis != nil && lr.rank() > 0 {
 				_, size := surfacesClose(surf[0], surf[1])
-				tol := basisShare * scaledTolerance(sys.compress.tol, sf.kappa, size) * math.Sqrt(dot(lr.u.Data, lr.u.Data))
-				fit, err = sf.basis.fit(sys, sf, lr, tol)
+				fit, err = sf.basis.fit(sys, sf, lr, basisShare*scaledTolerance(sys.compress.tol, sf.kappa, size))
 				if err != nil {
 					return evaluation{}, err
 				}
