@@ -80,6 +80,57 @@ func (as Assembler) CrossGradientSparse(ctx context.Context, h *mat.Dense, op *E
 	return as.contract(ctx, h, op, a, b, centre, onRowPanel, colPanels)
 }
 
+// CrossGradientBlock is CrossGradient for a weight that lives on the listed
+// rows (basis indices of a) and columns (basis indices of b) only: h is
+// len(rows) × len(cols), row major, with the weight of entry (rows[k],
+// cols[l]) at k·len(cols)+l. Only the panels of the listed rows are
+// integrated against the panels of the listed columns (the pairs
+// CrossBlock integrates for the same lists); the result is that of
+// CrossGradient with h placed in an otherwise zero matrix, to rounding.
+func (as Assembler) CrossGradientBlock(ctx context.Context, h []float64, op *EFIE, a, b *Surface, centre r3.Vec, rows, cols []int) (Motion, error) {
+	m, n := len(rows), len(cols)
+	if len(h) != m*n {
+		return Motion{}, fmt.Errorf("bem: a %d×%d weight needs %d values, have %d", m, n, m*n, len(h))
+	}
+	ri, err := positions(rows, a.Len(), "weight row")
+	if err != nil {
+		return Motion{}, err
+	}
+	ci, err := positions(cols, b.Len(), "weight column")
+	if err != nil {
+		return Motion{}, err
+	}
+	onRow := touched(a, ri)
+	colPanels := listed(b, ci)
+	part := make([]Motion, len(a.Panels))
+	err = as.byColor(ctx, a, func(s int) {
+		if !onRow[s] {
+			return
+		}
+		var off [3]int
+		for k, e := range a.edge[s] {
+			off[k] = -1
+			if r := ri[e]; r >= 0 {
+				off[k] = r * n
+			}
+		}
+		acc := &part[s]
+		for _, t := range colPanels {
+			var col [3]int
+			for l, f := range b.edge[t] {
+				col[l] = ci[f]
+			}
+			gradPairAt(acc, h, off, col, op, a, s, b, t, centre)
+		}
+	})
+	var total Motion
+	for _, p := range part {
+		total.Translation = r3.Add(total.Translation, p.Translation)
+		total.Rotation = r3.Add(total.Rotation, p.Rotation)
+	}
+	return total, err
+}
+
 // contract sums the derivatives of the pairs that carry weight: panel s of
 // a against every panel of b when full(s), else against the panels others
 // (ascending). Each panel of a keeps its own sum, added in panel order
@@ -109,9 +160,20 @@ func (as Assembler) contract(ctx context.Context, h *mat.Dense, op *EFIE, a, b *
 	return total, err
 }
 
-// gradPair adds the derivatives contributed by panel s of a and panel t of b.
+// gradPair adds the derivatives contributed by panel s of a and panel t of b,
+// with the weights of the full matrix h (row stride stride).
 func gradPair(acc *Motion, h []float64, stride int, op *EFIE, a *Surface, s int, b *Surface, t int, centre r3.Vec) {
-	pp := collapse(h, stride, op.Kappa, a, s, b, t, centre)
+	var off, col [3]int
+	for k := 0; k < 3; k++ {
+		off[k], col[k] = a.edge[s][k]*stride, b.edge[t][k]
+	}
+	gradPairAt(acc, h, off, col, op, a, s, b, t, centre)
+}
+
+// gradPairAt is gradPair with the weight of pairing (k, l) at
+// h[off[k]+col[l]], or zero where off[k] or col[l] is negative.
+func gradPairAt(acc *Motion, h []float64, off, col [3]int, op *EFIE, a *Surface, s int, b *Surface, t int, centre r3.Vec) {
+	pp := collapse(h, off, col, op.Kappa, a, s, b, t, centre)
 	if pp.S == 0 && pp.gamma == 0 && pp.alpha == (r3.Vec{}) && pp.beta == (r3.Vec{}) {
 		return
 	}
@@ -129,18 +191,25 @@ func gradPair(acc *Motion, h []float64, stride int, op *EFIE, a *Surface, s int,
 }
 
 // collapse sums the nine RWG pairings of panels s and t with their weights
-// h_kl c_k c_l into one polynomial in the local coordinates x̃, ỹ (relative to
-// the centroids): Σ_kl h_kl (x-p_k)·(y-p_l) = S x̃·ỹ - x̃·α - ỹ·β + γ and
+// h_kl c_k c_l (h_kl = h[off[k]+col[l]], zero where either is negative)
+// into one polynomial in the local coordinates x̃, ỹ (relative to the
+// centroids): Σ_kl h_kl (x-p_k)·(y-p_l) = S x̃·ỹ - x̃·α - ỹ·β + γ and
 // Σ_kl h_kl (y-p_l)×(x-p_k) = S ỹ×x̃ - ỹ×β - α×x̃ + δ.
-func collapse(h []float64, stride int, kappa float64, a *Surface, s int, b *Surface, t int, centre r3.Vec) pairPoly {
+func collapse(h []float64, off, col [3]int, kappa float64, a *Surface, s int, b *Surface, t int, centre r3.Vec) pairPoly {
 	ps, pt := &a.Panels[s], &b.Panels[t]
 	pp := pairPoly{kappa: kappa, lever: r3.Sub(pt.Centroid, centre), sep: subSeparation, leaf: subRule}
 	for k := 0; k < 3; k++ {
+		if off[k] < 0 {
+			continue
+		}
 		pk := r3.Sub(ps.V[k], ps.Centroid)
-		row := h[a.edge[s][k]*stride:]
+		row := h[off[k]:]
 		for l := 0; l < 3; l++ {
+			if col[l] < 0 {
+				continue
+			}
 			pl := r3.Sub(pt.V[l], pt.Centroid)
-			w := row[b.edge[t][l]] * a.coef[s][k] * b.coef[t][l]
+			w := row[col[l]] * a.coef[s][k] * b.coef[t][l]
 			pp.S += w
 			pp.alpha = r3.Add(pp.alpha, r3.Scale(w, pl))
 			pp.beta = r3.Add(pp.beta, r3.Scale(w, pk))

@@ -137,7 +137,8 @@ func TestCrossGradientNearPairs(t *testing.T) {
 				gradPair(&ref, raw.Data, raw.Stride, op, a, s, b, tt, centre)
 				continue
 			}
-			pp := collapse(raw.Data, raw.Stride, op.Kappa, a, s, b, tt, centre)
+			off := [3]int{a.edge[s][0] * raw.Stride, a.edge[s][1] * raw.Stride, a.edge[s][2] * raw.Stride}
+			pp := collapse(raw.Data, off, b.edge[tt], op.Kappa, a, s, b, tt, centre)
 			pp.sep, pp.leaf = 6, mustCollapsed(4)
 			pp.subdivide(a.Panels[s].V, a.Panels[s].Centroid, b.Panels[tt].V, b.Panels[tt].Centroid, 0)
 			ref.Translation = r3.Add(ref.Translation, pp.force)
@@ -197,5 +198,51 @@ func TestCrossGradientSparse(t *testing.T) {
 	op, _ := NewEFIE(1)
 	if _, err := (Assembler{}).CrossGradientSparse(ctx, h, op, a, b, centre, []int{a.Len()}, nil); err == nil {
 		t.Error("row out of range accepted")
+	}
+}
+
+// TestCrossGradientBlock checks the contraction of a weight on a sub-block
+// against the full contraction of the same weight placed in a zero matrix:
+// the skipped pairs carry no weight, so the two agree to rounding
+// (relative 1e-12: the pairs are summed in another grouping), and a row
+// listed twice is an error.
+func TestCrossGradientBlock(t *testing.T) {
+	ma, err := mesh.SphereLevel(1, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := surfaceOf(t, ma)
+	b := a.Translate(r3.Vec{X: 0.4, Z: 2.6})
+	rows, cols := []int{40, 3, 17, 18}, []int{61, 0, 25}
+	rng := rand.New(rand.NewPCG(5, 6))
+	hb := make([]float64, len(rows)*len(cols))
+	h := mat.NewDense(a.Len(), b.Len(), nil)
+	for k, i := range rows {
+		for l, j := range cols {
+			hb[k*len(cols)+l] = rng.NormFloat64()
+			h.Set(i, j, hb[k*len(cols)+l])
+		}
+	}
+	ctx := context.Background()
+	centre := r3.Vec{X: 0.4, Z: 2.5}
+	for _, kappa := range []float64{0.1, 3} {
+		op, _ := NewEFIE(kappa)
+		as := Assembler{Threads: 2}
+		full, err := as.CrossGradient(ctx, h, op, a, b, centre)
+		if err != nil {
+			t.Fatal(err)
+		}
+		blk, err := as.CrossGradientBlock(ctx, hb, op, a, b, centre, rows, cols)
+		if err != nil {
+			t.Fatal(err)
+		}
+		scale := math.Max(r3.Norm(full.Translation), r3.Norm(full.Rotation))
+		if d := math.Max(r3.Norm(r3.Sub(full.Translation, blk.Translation)), r3.Norm(r3.Sub(full.Rotation, blk.Rotation))); d > 1e-12*scale {
+			t.Errorf("κ=%g: block %+v, full %+v", kappa, blk, full)
+		}
+	}
+	op, _ := NewEFIE(1)
+	if _, err := (Assembler{}).CrossGradientBlock(ctx, make([]float64, 2), op, a, b, centre, []int{3, 3}, []int{0}); err == nil {
+		t.Error("row listed twice accepted")
 	}
 }

@@ -122,3 +122,97 @@ func (as Assembler) sampled(ctx context.Context, out []float64, own *Surface, e,
 	}
 	return nil
 }
+
+// CrossBlock assembles the entries of the interaction block between
+// surfaces a (rows) and b (columns) on the listed rows and columns only:
+// dst (len(rows) × len(cols), row major, overwritten) holds entry
+// (rows[k], cols[l]) at k·len(cols)+l. Only the panels of the listed rows
+// are integrated against the panels of the listed columns, so a sub-block
+// of edges whose panels cluster costs about (2·len(rows))·(2·len(cols))
+// pair integrals or fewer; the entries are the Cross block's to rounding.
+// Sampled bases (interpolation on a few rows and columns of a block) fill
+// their samples this way.
+func (as Assembler) CrossBlock(ctx context.Context, dst []float64, op Operator, a, b *Surface, rows, cols []int) error {
+	m, n := len(rows), len(cols)
+	if len(dst) != m*n {
+		return fmt.Errorf("bem: a %d×%d sub-block needs %d values, have %d", m, n, m*n, len(dst))
+	}
+	ri, err := positions(rows, a.Len(), "row")
+	if err != nil {
+		return err
+	}
+	ci, err := positions(cols, b.Len(), "column")
+	if err != nil {
+		return err
+	}
+	for i := range dst {
+		dst[i] = 0
+	}
+	onRow := touched(a, ri)
+	colPanels := listed(b, ci)
+	// byColor never runs two panels of a that share an edge at once, so
+	// the rows each panel adds to are its own.
+	return as.byColor(ctx, a, func(s int) {
+		if !onRow[s] {
+			return
+		}
+		var blk [3][3]float64
+		for _, t := range colPanels {
+			op.Pair(&blk, a, s, b, t, false)
+			for k, e := range a.edge[s] {
+				r := ri[e]
+				if r < 0 {
+					continue
+				}
+				row := dst[r*n : (r+1)*n]
+				for l, f := range b.edge[t] {
+					if c := ci[f]; c >= 0 {
+						row[c] += blk[k][l]
+					}
+				}
+			}
+		}
+	})
+}
+
+// positions returns, for each of the n unknowns of a surface, its position
+// in list or -1; an index outside 0..n-1 or listed twice is an error.
+func positions(list []int, n int, what string) ([]int, error) {
+	pos := make([]int, n)
+	for i := range pos {
+		pos[i] = -1
+	}
+	for k, e := range list {
+		if e < 0 || e >= n {
+			return nil, fmt.Errorf("bem: %s %d outside the %d unknowns of its surface", what, e, n)
+		}
+		if pos[e] >= 0 {
+			return nil, fmt.Errorf("bem: %s %d listed twice", what, e)
+		}
+		pos[e] = k
+	}
+	return pos, nil
+}
+
+// touched reports for each panel of s whether one of its edges has a
+// position (pos ≥ 0).
+func touched(s *Surface, pos []int) []bool {
+	on := make([]bool, len(s.Panels))
+	for t := range s.Panels {
+		e := s.edge[t]
+		on[t] = pos[e[0]] >= 0 || pos[e[1]] >= 0 || pos[e[2]] >= 0
+	}
+	return on
+}
+
+// listed returns the panels of s with an edge that has a position,
+// ascending.
+func listed(s *Surface, pos []int) []int {
+	var ps []int
+	for t, on := range touched(s, pos) {
+		if on {
+			ps = append(ps, t)
+		}
+	}
+	return ps
+}

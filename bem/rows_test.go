@@ -68,3 +68,41 @@ func TestCrossRowsColumns(t *testing.T) {
 		})
 	}
 }
+
+// TestCrossBlock checks a sub-block on scattered rows and columns against
+// the dense Cross block: the same pair integrals summed in another order,
+// so they agree to rounding (1e-13 of the block's largest entry, as for the
+// rows), and bad lists are errors.
+func TestCrossBlock(t *testing.T) {
+	a := testSurface(t, 3)
+	b := a.Translate(r3.Vec{X: 0.05, Z: 2.1})
+	op, err := NewEFIE(0.8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	as := Assembler{Threads: 2}
+	dense := mat.NewDense(a.Len(), b.Len(), nil)
+	if err := as.Cross(ctx, dense, op, a, b); err != nil {
+		t.Fatal(err)
+	}
+	scale := mat.Norm(dense, math.Inf(1)) / float64(b.Len())
+	rows := []int{a.Len() - 1, 0, 7, 8, a.Len() / 2}
+	cols := []int{3, b.Len() / 3, 4, b.Len() - 2}
+	got := make([]float64, len(rows)*len(cols))
+	if err := as.CrossBlock(ctx, got, op, a, b, rows, cols); err != nil {
+		t.Fatal(err)
+	}
+	for k, i := range rows {
+		for l, j := range cols {
+			if d := math.Abs(got[k*len(cols)+l] - dense.At(i, j)); d > 1e-13*scale {
+				t.Errorf("entry (%d, %d): %g, dense %g", i, j, got[k*len(cols)+l], dense.At(i, j))
+			}
+		}
+	}
+	for _, bad := range [][2][]int{{{-1}, {0}}, {{0}, {b.Len()}}, {{2, 2}, {0}}} {
+		if err := as.CrossBlock(ctx, make([]float64, len(bad[0])*len(bad[1])), op, a, b, bad[0], bad[1]); err == nil {
+			t.Errorf("rows %v, columns %v accepted", bad[0], bad[1])
+		}
+	}
+}

@@ -45,6 +45,14 @@ const (
 	// basisKeep 1/10, 1/30 and 1/100 took 122.3, 113.4 and 119.2 s.
 	basisRefs = 4
 	basisKeep = 1.0 / 30
+	// basisTight is the references' block tolerance relative to the run's:
+	// the sampled path interpolates in the bases, which amplifies what
+	// they miss two to three times (measured at gaps 0.66R–1.3R between two
+	// 1280-triangle spheres at κR = 1: with references at the run's
+	// tolerance points between them were off by up to 0.9 of it, at a
+	// quarter of it by up to 0.37), so the bases must hold the blocks
+	// better than the points need.
+	basisTight = 1.0 / 4
 	// basisShare is the fraction of a point's block tolerance that the part
 	// of its U and V outside the bases may take; the compression's own
 	// error stays within the remaining 5/6 (ACA tol/3, recompression tol/2).
@@ -68,24 +76,44 @@ type crossBasis struct {
 	side [2]*sideBasis
 	tol  float64 // block tolerance the references were compressed to
 	refs map[placement]*lowRank
+	// sampled is the sampled path (sampled.go), nil where a side's basis
+	// cannot be interpolated.
+	sampled *sampledBasis
 }
 
 // buildCrossBasis compresses the interaction block at the reference
-// placements pls to the run's block tolerance and builds the bases of both
-// sides from them. It returns nil, without error, when no reference block
-// compresses.
-func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []placement) (*crossBasis, error) {
-	cb := &crossBasis{tol: sys.compress.tol, refs: map[placement]*lowRank{}}
+// placements refs to basisTight times the run's block tolerance and builds
+// the bases of both sides, and their sampled path (sampled.go), from them.
+// It returns nil, without error, when no reference block compresses.
+func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, refs []placement) (*crossBasis, error) {
+	cb := &crossBasis{tol: basisTight * sys.compress.tol, refs: map[placement]*lowRank{}}
+	if err := cb.add(ctx, sys, sf, refs); err != nil {
+		return nil, err
+	}
+	if cb.side[0] == nil || cb.side[1] == nil {
+		return nil, nil
+	}
+	var err error
+	if cb.sampled, err = sys.sampledFor(cb); err != nil {
+		return nil, fmt.Errorf("scatter: sweep basis at κ = %g: %w", sf.kappa, err)
+	}
+	return cb, nil
+}
+
+// add compresses the block at each placement of pls (recorded in cb.refs,
+// nil where it did not compress) and extends the bases by the directions
+// of those blocks that the bases miss, whitening only the new ones.
+func (cb *crossBasis) add(ctx context.Context, sys *system, sf *selfFactors, pls []placement) error {
 	var us, vs []blas64.General
 	var thr []float64
 	for _, pl := range pls {
 		surf, err := sys.surfacesAt(pl)
 		if err != nil {
-			return nil, err
+			return err
 		}
-		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], sys.compress.tol)
+		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], cb.tol)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		if !ok {
 			cb.refs[pl] = nil // the point's own evaluation goes dense
@@ -99,35 +127,72 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 		us = append(us, lr.u)
 		vs = append(vs, scaledColumns(lr.v, sigma))
 		_, size := surfacesClose(surf[0], surf[1])
-		thr = append(thr, basisKeep*scaledTolerance(sys.compress.tol, sf.kappa, size)*math.Sqrt(dot(sigma, sigma)))
+		thr = append(thr, basisKeep*scaledTolerance(cb.tol, sf.kappa, size)*math.Sqrt(dot(sigma, sigma)))
 	}
 	if len(us) == 0 {
-		return nil, nil
+		return nil
 	}
 	for i, xs := range [][]blas64.General{us, vs} {
-		bt, err := spanOf(xs, thr)
-		if err != nil {
-			return nil, fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		old := blas64.General{Cols: xs[0].Rows, Stride: xs[0].Rows}
+		if cb.side[i] != nil {
+			old = cb.side[i].bt
 		}
-		sb := &sideBasis{b: transpose(bt), bt: bt}
-		sb.w = copyGeneral(sb.b)
-		solveLower(sf.f[i].l, sb.w, sys.threads)
-		sb.z = copyGeneral(sb.w)
-		solveLowerTransInPlace(sf.f[i].l, sb.z)
-		sb.g = product(transpose(sb.w), sb.w)
-		cb.side[i] = sb
+		bt, err := spanOf(old, xs, thr)
+		if err != nil {
+			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		}
+		cb.side[i] = cb.side[i].extended(bt, sf.f[i].l, sys.threads)
 	}
-	return cb, nil
+	return nil
 }
 
-// spanOf returns, transposed (p×N), an orthonormal basis of the directions
-// of the N×k_i matrices xs whose singular values exceed thr[i] once the
-// directions of the earlier matrices are removed: block Gram–Schmidt with
-// two projections (so that the basis stays orthonormal to rounding) and the
-// residual's directions from the eigenvectors of its Gram matrix.
-func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
+// extended returns the side basis with the orthonormal rows bt (p×N, the
+// rows of sb first) whitened: only the rows beyond sb's are solved for.
+func (sb *sideBasis) extended(bt blas64.General, l blas64.Triangular, threads int) *sideBasis {
+	p0 := 0
+	if sb != nil {
+		p0 = sb.size()
+	}
+	p, n := bt.Rows, bt.Cols
+	if p == p0 {
+		return sb // nothing new (nil when there is still no direction)
+	}
+	nb := &sideBasis{b: transpose(bt), bt: bt}
+	fresh := transpose(blas64.General{Rows: p - p0, Cols: n, Stride: n, Data: bt.Data[p0*n : p*n]})
+	solveLower(l, fresh, threads)
+	fz := copyGeneral(fresh)
+	solveLowerTransInPlace(l, fz)
+	nb.w = joinColumns(sb, func(s *sideBasis) blas64.General { return s.w }, fresh)
+	nb.z = joinColumns(sb, func(s *sideBasis) blas64.General { return s.z }, fz)
+	nb.g = product(transpose(nb.w), nb.w)
+	return nb
+}
+
+// joinColumns returns [of(sb) x] (N×(p0+k)), or x when sb is nil.
+func joinColumns(sb *sideBasis, of func(*sideBasis) blas64.General, x blas64.General) blas64.General {
+	if sb == nil {
+		return x
+	}
+	a := of(sb)
+	out := blas64.General{Rows: a.Rows, Cols: a.Cols + x.Cols, Stride: a.Cols + x.Cols, Data: make([]float64, a.Rows*(a.Cols+x.Cols))}
+	for i := 0; i < a.Rows; i++ {
+		row := out.Data[i*out.Stride:]
+		copy(row, a.Data[i*a.Stride:i*a.Stride+a.Cols])
+		copy(row[a.Cols:], x.Data[i*x.Stride:i*x.Stride+x.Cols])
+	}
+	return out
+}
+
+// spanOf returns, transposed (p×N), an orthonormal basis that extends the
+// orthonormal rows of bt0 (p0×N, kept first; zero rows for a new basis) by
+// the directions of the N×k_i matrices xs whose singular values exceed
+// thr[i] once the directions of the basis so far are removed: block
+// Gram–Schmidt with two projections (so that the basis stays orthonormal to
+// rounding) and the residual's directions from the eigenvectors of its Gram
+// matrix.
+func spanOf(bt0 blas64.General, xs []blas64.General, thr []float64) (blas64.General, error) {
 	n := xs[0].Rows
-	bt := blas64.General{Rows: 0, Cols: n, Stride: n}
+	bt := blas64.General{Rows: bt0.Rows, Cols: n, Stride: n, Data: copyGeneral(bt0).Data}
 	for i, x := range xs {
 		e := copyGeneral(x)
 		removeSpan(bt, e)

@@ -56,7 +56,7 @@ func TestSpanOf(t *testing.T) {
 		xs = append(xs, mat.DenseCopyOf(&x).RawMatrix())
 		thr = append(thr, 1e-6)
 	}
-	bt, err := spanOf(xs, thr)
+	bt, err := spanOf(blas64.General{Cols: n, Stride: n}, xs, thr)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -96,7 +96,9 @@ func TestSpanOf(t *testing.T) {
 // four placements spread over the sweep, points between them. A second
 // basis built only from the two farthest placements misses part of the
 // closest point's block: there the point's own directions must make up for
-// it (the fit reports them) and the result must stay as accurate.
+// it (the fit reports them) and the result must stay as accurate. Each
+// point is evaluated by the sampled path (sampled.go), which must take the
+// points between the references, and by the fit of its compressed block.
 func TestBasisIntegrand(t *testing.T) {
 	const accuracy = 1e-3
 	bodies := pairScene(t, 4, 4)
@@ -111,14 +113,15 @@ func TestBasisIntegrand(t *testing.T) {
 	spread := []placement{at(0), at(2.0 / 3), at(4.0 / 3), at(2)}
 	far := []placement{at(5.0 / 3), at(2)}
 	for _, tc := range []struct {
-		name  string
-		refs  []placement
-		point float64
-		extra bool // the fit needs the point's own directions
+		name    string
+		refs    []placement
+		point   float64
+		extra   bool // the fit needs the point's own directions
+		sampled bool // the sampled path takes the point
 	}{
-		{"between references", spread, 1.0 / 3, false},
-		{"between references", spread, 1, false},
-		{"outside the references", far, 0, true},
+		{"between references", spread, 1.0 / 3, false, true},
+		{"between references", spread, 1, false, true},
+		{"outside the references", far, 0, true, false},
 	} {
 		for _, kappa := range []float64{0.05, 0.5, 2} {
 			sf, err := sys.factorSelf(ctx, kappa)
@@ -135,11 +138,23 @@ func TestBasisIntegrand(t *testing.T) {
 			if sf.basis, err = sys.buildCrossBasis(ctx, sf, tc.refs); err != nil || sf.basis == nil {
 				t.Fatalf("κ=%g: no basis (error %v)", kappa, err)
 			}
-			comp, err := sys.evaluate(ctx, sf, pl, true)
+			sampled, err := sys.evaluate(ctx, sf, pl, true)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if len(comp.ranks) != 1 || comp.ranks[0].Basis != 1 {
+			if tc.sampled && sampled.ranks[0].Sampled != 1 {
+				t.Errorf("%s, κ=%g: ranks %+v, want the sampled path", tc.name, kappa, sampled.ranks)
+			}
+			// The same point without the sampled path: the fit of its
+			// compressed block in the bases.
+			keep := sf.basis.sampled
+			sf.basis.sampled = nil
+			comp, err := sys.evaluate(ctx, sf, pl, true)
+			sf.basis.sampled = keep
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(comp.ranks) != 1 || comp.ranks[0].Basis != 1 || comp.ranks[0].Sampled != 0 {
 				t.Fatalf("%s, κ=%g: ranks %+v, want one block through the basis", tc.name, kappa, comp.ranks)
 			}
 			// The fit on its own: did it need the point's directions?
@@ -151,21 +166,26 @@ func TestBasisIntegrand(t *testing.T) {
 				t.Fatal(err)
 			}
 			extra := fit.extra[0] != nil || fit.extra[1] != nil
-			rel := math.Abs(comp.logDet/dense.logDet - 1)
-			worst := 0.0
-			for i := range comp.grad {
-				worst = math.Max(worst, math.Abs(comp.grad[i]-dense.grad[i])/math.Abs(dense.grad[2]))
-			}
-			t.Logf("%s, offset %.3g, κ=%g: basis %d+%d, own directions %v, integrand error %.2g, gradient error %.2g",
-				tc.name, tc.point, kappa, sf.basis.side[0].size(), sf.basis.side[1].size(), extra, rel, worst)
 			if tc.extra && !extra {
 				t.Errorf("%s, κ=%g: the fit found the point inside a basis built from the far placements only", tc.name, kappa)
 			}
-			if rel > accuracy/5 {
-				t.Errorf("%s, κ=%g: integrand %.8g through the basis, %.8g dense (relative %.2g)", tc.name, kappa, comp.logDet, dense.logDet, rel)
-			}
-			if worst > accuracy/5 {
-				t.Errorf("%s, κ=%g: gradient %.8g through the basis, %.8g dense (error %.2g of the axial component)", tc.name, kappa, comp.grad, dense.grad, worst)
+			for _, got := range []struct {
+				path string
+				ev   evaluation
+			}{{"sampled", sampled}, {"fit", comp}} {
+				rel := math.Abs(got.ev.logDet/dense.logDet - 1)
+				worst := 0.0
+				for i := range got.ev.grad {
+					worst = math.Max(worst, math.Abs(got.ev.grad[i]-dense.grad[i])/math.Abs(dense.grad[2]))
+				}
+				t.Logf("%s, offset %.3g, κ=%g, %s (sampled %d): basis %d+%d, own directions %v, integrand error %.2g, gradient error %.2g",
+					tc.name, tc.point, kappa, got.path, got.ev.ranks[0].Sampled, sf.basis.side[0].size(), sf.basis.side[1].size(), extra, rel, worst)
+				if rel > accuracy/5 {
+					t.Errorf("%s, κ=%g, %s: integrand %.8g through the basis, %.8g dense (relative %.2g)", tc.name, kappa, got.path, got.ev.logDet, dense.logDet, rel)
+				}
+				if worst > accuracy/5 {
+					t.Errorf("%s, κ=%g, %s: gradient %.8g through the basis, %.8g dense (error %.2g of the axial component)", tc.name, kappa, got.path, got.ev.grad, dense.grad, worst)
+				}
 			}
 		}
 	}

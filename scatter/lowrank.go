@@ -18,8 +18,9 @@ type BlockRank struct {
 	// compressed (0 when it never was).
 	Rank int
 	// Compressed and Dense count the evaluations of each kind, Basis those
-	// of the compressed ones that went through the sweep basis.
-	Compressed, Dense, Basis int
+	// of the compressed ones that went through the sweep basis, and Sampled
+	// those of them that took the sampled path (sampled.go).
+	Compressed, Dense, Basis, Sampled int
 }
 
 // mergeRanks adds the records of one evaluation to those of a point.
@@ -32,6 +33,7 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 				to[k].Compressed += f.Compressed
 				to[k].Dense += f.Dense
 				to[k].Basis += f.Basis
+				to[k].Sampled += f.Sampled
 				found = true
 				break
 			}
@@ -51,6 +53,18 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 // misses.
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
+	if sys.compress.on && sf.basis != nil && sf.basis.sampled != nil {
+		_, size := surfacesClose(surf[0], surf[1])
+		ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, scaledTolerance(sys.compress.tol, sf.kappa, size))
+		if err != nil {
+			return evaluation{}, err
+		}
+		if ok {
+			rec.Rank, rec.Compressed, rec.Basis, rec.Sampled = sf.basis.sampled.rank(), 1, 1, 1
+			ev.ranks = []BlockRank{rec}
+			return ev, nil
+		}
+	}
 	if sys.compress.on {
 		lr, ok, hit := sf.basis.cached(pl, sys.compress.tol)
 		var err error

@@ -163,6 +163,9 @@ type BlockRank struct {
 	Compressed int    `json:"compressed"`
 	Dense      int    `json:"dense"`
 	ViaBasis   int    `json:"via_sweep_basis"`
+	// ViaSamples counts the evaluations through the basis that needed only
+	// a sampled sub-block of the interaction block.
+	ViaSamples int `json:"via_basis_samples"`
 }
 
 // Sample is one evaluation of the frequency integrand.
@@ -326,7 +329,7 @@ func point(s *job.Scene, p scatter.Point, forces bool) Point {
 		q.Samples[k] = Sample{KappaPerUnit: Float(smp.Kappa), Integrand: Float(smp.Value)}
 	}
 	for _, r := range p.Ranks {
-		q.BlockRanks = append(q.BlockRanks, BlockRank{Rows: r.Rows, Cols: r.Cols, Rank: r.Rank, Compressed: r.Compressed, Dense: r.Dense, ViaBasis: r.Basis})
+		q.BlockRanks = append(q.BlockRanks, BlockRank{Rows: r.Rows, Cols: r.Cols, Rank: r.Rank, Compressed: r.Compressed, Dense: r.Dense, ViaBasis: r.Basis, ViaSamples: r.Sampled})
 	}
 	angles := j.Sweep.Kind() == job.ByAngles
 	if angles {
