@@ -42,9 +42,11 @@ const (
 	// directions to the points, more or larger ones cost more per κ:
 	// measured on the 20-point sweep of BenchmarkSweep (1920 unknowns per
 	// body), 3, 4 and 5 references took 119.7, 113.4 and 118.8 s, and
-	// basisKeep 1/10, 1/30 and 1/100 took 122.3, 113.4 and 119.2 s.
+	// basisKeep 1/10, 1/30 and 1/100 took 122.3, 113.4 and 119.2 s before
+	// the sampled path; with it, 1/30, 1/10 and 1/5 took about 101, 94.3
+	// and 93.9 s (1/5 sent most close points back to the compressed path).
 	basisRefs = 4
-	basisKeep = 1.0 / 30
+	basisKeep = 1.0 / 10
 	// basisTight is the references' block tolerance relative to the run's:
 	// the sampled path interpolates in the bases, which amplifies what
 	// they miss two to three times (measured at gaps 0.66R–1.3R between two
