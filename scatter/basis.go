@@ -84,38 +84,21 @@ type crossBasis struct {
 }
 
 // buildCrossBasis compresses the interaction block at the reference
-// placements refs to basisTight times the run's block tolerance and builds
+// placements pls to basisTight times the run's block tolerance and builds
 // the bases of both sides, and their sampled path (sampled.go), from them.
 // It returns nil, without error, when no reference block compresses.
-func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, refs []placement) (*crossBasis, error) {
+func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []placement) (*crossBasis, error) {
 	cb := &crossBasis{tol: basisTight * sys.compress.tol, refs: map[placement]*lowRank{}}
-	if err := cb.add(ctx, sys, sf, refs); err != nil {
-		return nil, err
-	}
-	if cb.side[0] == nil || cb.side[1] == nil {
-		return nil, nil
-	}
-	var err error
-	if cb.sampled, err = sys.sampledFor(cb); err != nil {
-		return nil, fmt.Errorf("scatter: sweep basis at κ = %g: %w", sf.kappa, err)
-	}
-	return cb, nil
-}
-
-// add compresses the block at each placement of pls (recorded in cb.refs,
-// nil where it did not compress) and extends the bases by the directions
-// of those blocks that the bases miss, whitening only the new ones.
-func (cb *crossBasis) add(ctx context.Context, sys *system, sf *selfFactors, pls []placement) error {
 	var us, vs []blas64.General
 	var thr []float64
 	for _, pl := range pls {
 		surf, err := sys.surfacesAt(pl)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], cb.tol)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		if !ok {
 			cb.refs[pl] = nil // the point's own evaluation goes dense
@@ -132,69 +115,36 @@ func (cb *crossBasis) add(ctx context.Context, sys *system, sf *selfFactors, pls
 		thr = append(thr, basisKeep*scaledTolerance(cb.tol, sf.kappa, size)*math.Sqrt(dot(sigma, sigma)))
 	}
 	if len(us) == 0 {
-		return nil
+		return nil, nil
 	}
 	for i, xs := range [][]blas64.General{us, vs} {
-		old := blas64.General{Cols: xs[0].Rows, Stride: xs[0].Rows}
-		if cb.side[i] != nil {
-			old = cb.side[i].bt
-		}
-		bt, err := spanOf(old, xs, thr)
+		bt, err := spanOf(xs, thr)
 		if err != nil {
-			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+			return nil, fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
 		}
-		cb.side[i] = cb.side[i].extended(bt, sf.f[i].l, sys.threads)
+		sb := &sideBasis{b: transpose(bt), bt: bt}
+		sb.w = copyGeneral(sb.b)
+		solveLower(sf.f[i].l, sb.w, sys.threads)
+		sb.z = copyGeneral(sb.w)
+		solveLowerTransInPlace(sf.f[i].l, sb.z)
+		sb.g = product(transpose(sb.w), sb.w)
+		cb.side[i] = sb
 	}
-	return nil
+	var err error
+	if cb.sampled, err = sys.sampledFor(cb); err != nil {
+		return nil, fmt.Errorf("scatter: sweep basis at κ = %g: %w", sf.kappa, err)
+	}
+	return cb, nil
 }
 
-// extended returns the side basis with the orthonormal rows bt (p×N, the
-// rows of sb first) whitened: only the rows beyond sb's are solved for.
-func (sb *sideBasis) extended(bt blas64.General, l blas64.Triangular, threads int) *sideBasis {
-	p0 := 0
-	if sb != nil {
-		p0 = sb.size()
-	}
-	p, n := bt.Rows, bt.Cols
-	if p == p0 {
-		return sb // nothing new (nil when there is still no direction)
-	}
-	nb := &sideBasis{b: transpose(bt), bt: bt}
-	fresh := transpose(blas64.General{Rows: p - p0, Cols: n, Stride: n, Data: bt.Data[p0*n : p*n]})
-	solveLower(l, fresh, threads)
-	fz := copyGeneral(fresh)
-	solveLowerTransInPlace(l, fz)
-	nb.w = joinColumns(sb, func(s *sideBasis) blas64.General { return s.w }, fresh)
-	nb.z = joinColumns(sb, func(s *sideBasis) blas64.General { return s.z }, fz)
-	nb.g = product(transpose(nb.w), nb.w)
-	return nb
-}
-
-// joinColumns returns [of(sb) x] (N×(p0+k)), or x when sb is nil.
-func joinColumns(sb *sideBasis, of func(*sideBasis) blas64.General, x blas64.General) blas64.General {
-	if sb == nil {
-		return x
-	}
-	a := of(sb)
-	out := blas64.General{Rows: a.Rows, Cols: a.Cols + x.Cols, Stride: a.Cols + x.Cols, Data: make([]float64, a.Rows*(a.Cols+x.Cols))}
-	for i := 0; i < a.Rows; i++ {
-		row := out.Data[i*out.Stride:]
-		copy(row, a.Data[i*a.Stride:i*a.Stride+a.Cols])
-		copy(row[a.Cols:], x.Data[i*x.Stride:i*x.Stride+x.Cols])
-	}
-	return out
-}
-
-// spanOf returns, transposed (p×N), an orthonormal basis that extends the
-// orthonormal rows of bt0 (p0×N, kept first; zero rows for a new basis) by
-// the directions of the N×k_i matrices xs whose singular values exceed
-// thr[i] once the directions of the basis so far are removed: block
-// Gram–Schmidt with two projections (so that the basis stays orthonormal to
-// rounding) and the residual's directions from the eigenvectors of its Gram
-// matrix.
-func spanOf(bt0 blas64.General, xs []blas64.General, thr []float64) (blas64.General, error) {
+// spanOf returns, transposed (p×N), an orthonormal basis of the directions
+// of the N×k_i matrices xs whose singular values exceed thr[i] once the
+// directions of the earlier matrices are removed: block Gram–Schmidt with
+// two projections (so that the basis stays orthonormal to rounding) and the
+// residual's directions from the eigenvectors of its Gram matrix.
+func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
 	n := xs[0].Rows
-	bt := blas64.General{Rows: bt0.Rows, Cols: n, Stride: n, Data: copyGeneral(bt0).Data}
+	bt := blas64.General{Rows: 0, Cols: n, Stride: n}
 	for i, x := range xs {
 		e := copyGeneral(x)
 		removeSpan(bt, e)

@@ -56,7 +56,7 @@ func TestSpanOf(t *testing.T) {
 		xs = append(xs, mat.DenseCopyOf(&x).RawMatrix())
 		thr = append(thr, 1e-6)
 	}
-	bt, err := spanOf(blas64.General{Cols: n, Stride: n}, xs, thr)
+	bt, err := spanOf(xs, thr)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -130,13 +130,18 @@ func (sys *system) compressCross(ctx context.Context, op bem.Operator, kappa flo
 func surfacesClose(a, b *bem.Surface) (bool, float64) {
 	la, ha := bounds(a)
 	lb, hb := bounds(b)
-	gap := r3.Vec{
+	da, db := r3.Norm(r3.Sub(ha, la)), r3.Norm(r3.Sub(hb, lb))
+	return boxGap(la, ha, lb, hb) < contactFraction*math.Min(da, db), math.Max(da, db)
+}
+
+// boxGap is the distance between the boxes [la, ha] and [lb, hb] (zero
+// where they overlap); a point is the box [x, x].
+func boxGap(la, ha, lb, hb r3.Vec) float64 {
+	return r3.Norm(r3.Vec{
 		X: math.Max(0, math.Max(la.X-hb.X, lb.X-ha.X)),
 		Y: math.Max(0, math.Max(la.Y-hb.Y, lb.Y-ha.Y)),
 		Z: math.Max(0, math.Max(la.Z-hb.Z, lb.Z-ha.Z)),
-	}
-	da, db := r3.Norm(r3.Sub(ha, la)), r3.Norm(r3.Sub(hb, lb))
-	return r3.Norm(gap) < contactFraction*math.Min(da, db), math.Max(da, db)
+	})
 }
 
 func bounds(s *bem.Surface) (lo, hi r3.Vec) {

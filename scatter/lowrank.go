@@ -50,12 +50,14 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 // With a sweep basis at this κ (sf.basis) the block of a reference
 // placement is taken from it, and the compressed block goes through the
 // basis (crossBasis.fit) with a sixth of its tolerance for what the basis
-// misses.
+// misses. Before that, a point the basis' sampled path (sampled.go) takes
+// skips its own compression.
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
 	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
+	_, size := surfacesClose(surf[0], surf[1])
+	tol := scaledTolerance(sys.compress.tol, sf.kappa, size) // relative, of this block
 	if sys.compress.on && sf.basis != nil && sf.basis.sampled != nil {
-		_, size := surfacesClose(surf[0], surf[1])
-		ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, scaledTolerance(sys.compress.tol, sf.kappa, size))
+		ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, tol)
 		if err != nil {
 			return evaluation{}, err
 		}
@@ -77,8 +79,7 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 		if ok {
 			var fit *basisFit
 			if sf.basis != nil && lr.rank() > 0 {
-				_, size := surfacesClose(surf[0], surf[1])
-				fit, err = sf.basis.fit(sys, sf, lr, basisShare*scaledTolerance(sys.compress.tol, sf.kappa, size))
+				fit, err = sf.basis.fit(sys, sf, lr, basisShare*tol)
 				if err != nil {
 					return evaluation{}, err
 				}

@@ -3,7 +3,6 @@ package scatter
 import (
 	"context"
 	"fmt"
-	"math"
 	"sort"
 
 	"gonum.org/v1/gonum/blas"
@@ -135,18 +134,8 @@ func newSampledSide(sb *sideBasis, basis edgeTopology) (*sampledSide, error) {
 	if c := qr.Cond(); !(c <= sampledCond) {
 		return nil, nil
 	}
-	var q, r mat.Dense
-	qr.QTo(&q)
-	qr.RTo(&r)
-	var am mat.Dense // A = R^-1 Qᵀ, p×m
-	rt := mat.NewTriDense(p, mat.Upper, nil)
-	for i := 0; i < p; i++ {
-		for j := i; j < p; j++ {
-			rt.SetTri(i, j, r.At(i, j))
-		}
-	}
-	qt := mat.DenseCopyOf(q.Slice(0, m, 0, p).T())
-	if err := rt.SolveTo(&am, false, qt); err != nil {
+	var am mat.Dense // A = B[E, :]⁺ (p×m), the least-squares solution of B[E, :] A = I
+	if err := qr.SolveTo(&am, false, eye(m)); err != nil {
 		return nil, fmt.Errorf("interpolation of the sweep basis: %w", err)
 	}
 	// R_G with G = R_Gᵀ R_G (the basis' Gram matrix in M^-1).
@@ -154,12 +143,8 @@ func newSampledSide(sb *sideBasis, basis edgeTopology) (*sampledSide, error) {
 	if _, ok := choleskyLower(g.Data, p, g.Stride); !ok {
 		return nil, nil
 	}
-	rg := blas64.General{Rows: p, Cols: p, Stride: p, Data: make([]float64, p*p)}
-	for i := 0; i < p; i++ {
-		for j := 0; j <= i; j++ {
-			rg.Data[j*p+i] = g.Data[i*g.Stride+j] // R_G = Lᵀ
-		}
-	}
+	ru := upperOf(blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: p, Stride: g.Stride, Data: g.Data})
+	rg := blas64.General{Rows: p, Cols: p, Stride: ru.Stride, Data: ru.Data}
 	sd := &sampledSide{pick: pick}
 	sd.t = product(rg, am.RawMatrix())
 	sd.tt = transpose(sd.t)
@@ -250,12 +235,7 @@ func (sp *sampledBasis) checks(i int, surf []*bem.Surface) []int {
 				mid = r3.Add(mid, r3.Scale(0.5, v[k]))
 			}
 		}
-		gap := r3.Vec{
-			X: math.Max(0, math.Max(lo.X-mid.X, mid.X-hi.X)),
-			Y: math.Max(0, math.Max(lo.Y-mid.Y, mid.Y-hi.Y)),
-			Z: math.Max(0, math.Max(lo.Z-mid.Z, mid.Z-hi.Z)),
-		}
-		cs = append(cs, cand{e, r3.Norm(gap)})
+		cs = append(cs, cand{e, boxGap(lo, hi, mid, mid)})
 	}
 	if len(cs) <= sampledChecks {
 		out := make([]int, len(cs))
@@ -315,11 +295,8 @@ func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []
 	if d.Cols < d.Rows {
 		z = transpose(z)
 	}
-	// H = -T0ᵀ Z T1 on E0 × E1 (m0×m1); d ln det = 2 <H, dS>.
+	// H = T0ᵀ Z T1 on E0 × E1 (m0×m1); d ln det = -2 <H, dS>.
 	h := product(s0.tt, product(z, s1.t))
-	for i := range h.Data {
-		h.Data[i] = -h.Data[i]
-	}
 	var mot bem.Motion
 	if sys.moving == 1 {
 		mot, err = sys.asm.CrossGradientBlock(ctx, h.Data, sf.op, surf[0], surf[1], pl.centre, s0.pick, s1.pick)
@@ -329,7 +306,7 @@ func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []
 	if err != nil {
 		return evaluation{}, false, err
 	}
-	ev.setGrad(mot, 2)
+	ev.setGrad(mot, -2)
 	return ev, true, nil
 }
 
@@ -371,6 +348,15 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 		compare(exact, product(product(pc, transpose(s)), s0.pit)) // c×N0
 	}
 	return s, errSq <= tol*tol*normSq, nil
+}
+
+// eye returns the n×n identity.
+func eye(n int) *mat.Dense {
+	d := mat.NewDense(n, n, nil)
+	for i := 0; i < n; i++ {
+		d.Set(i, i, 1)
+	}
+	return d
 }
 
 // rowsOf returns the listed rows of a.
