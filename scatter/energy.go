@@ -14,7 +14,11 @@ import (
 const (
 	// kappaCutoff bounds the integrand's range: beyond κ = kappaCutoff/gap
 	// it is below exp(-2 kappaCutoff) of its value at small κ (DESIGN §4).
+	// Runs stop earlier, at the accuracy's own cutoff (cutoffFor).
 	kappaCutoff = 30
+	// tailShare is the fraction of the requested accuracy that the part of
+	// the κ integral beyond the cutoff may take (cutoffFor).
+	tailShare = 1.0 / 100
 	// firstRule and lastRule are the smallest and largest Fejér rule sizes.
 	// The first error estimate compares the 15-, 7- and 3-node rules: with
 	// fewer nodes two rules can agree by chance.
@@ -85,7 +89,7 @@ func Energies(ctx context.Context, bodies []Body, sweep Sweep, set Settings) ([]
 			return nil, fmt.Errorf("scatter: the stiffness needs a sweep direction")
 		}
 	}
-	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, scale: scale, delta: make([]float64, len(pts))}
+	run := &runner{sys: sys, set: set, sweep: sweep, pts: pts, scale: scale, delta: make([]float64, len(pts)), cutoff: cutoffFor(set.Accuracy)}
 	for i := range pts {
 		run.delta[i] = stiffnessStep * scale[i]
 		if len(sweep.Turns) != 0 {
@@ -267,6 +271,7 @@ type runner struct {
 	pts        []Point
 	scale      []float64 // smallest gap anywhere in the scene at each point, L0
 	delta      []float64 // stiffness step of each point, L0
+	cutoff     float64   // κ·gap beyond which no node is computed (cutoffFor)
 	done, todo int
 }
 
@@ -406,7 +411,7 @@ func (r *runner) basisRefs(kappa float64) []placement {
 	}
 	var admit []int
 	for i, d := range r.scale {
-		if kappa*d <= kappaCutoff {
+		if kappa*d <= r.cutoff {
 			admit = append(admit, i)
 		}
 	}
@@ -477,6 +482,42 @@ func (r *runner) progress() {
 	}
 }
 
+// cutoffFor returns x = κ·gap beyond which the integrand is left out at
+// relative accuracy acc: the part of the integral beyond x is at most
+// tailShare·acc of the whole, for the energy, the force and the stiffness.
+// The bound is that of two parallel perfect-conductor plates at the gap,
+// where every point of the surfaces is as close as the closest (any other
+// pair of bodies has its surfaces at the gap or further, and each local
+// separation L ≥ gap contributes a tail beyond x/gap no larger than the
+// plates' at L). For plates at separation L the integrand of the m-th
+// derivative in L is, with x = κL (Lifshitz's formula at perfect
+// reflection; the n = 1 term of ln(1 - e^{-2qL}) = -Σ e^{-2nqL}/n
+// dominates the tail),
+//
+//	f_m(κ) ∝ ∫_κ^∞ q (2q)^m Σ_n n^{m-1} e^{-2nqL} dq,
+//
+// whose tail beyond x takes a share below e^{-2x} (1+x)³ of the whole for
+// m = 0, 1, 2 (TestCutoffTail checks it against the integral itself). The
+// result lies between 1 and kappaCutoff; about 9.25 at acc = 1e-3 and 13.2
+// at 1e-6.
+func cutoffFor(acc float64) float64 {
+	bound := func(x float64) float64 { return math.Exp(-2*x) * math.Pow(1+x, 3) }
+	target := tailShare * acc
+	if bound(kappaCutoff) > target {
+		return kappaCutoff
+	}
+	lo, hi := 1.0, float64(kappaCutoff) // bound falls on [1, ∞)
+	for hi-lo > 1e-3 {
+		mid := (lo + hi) / 2
+		if bound(mid) > target {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return hi
+}
+
 // dyadic rounds x to the nearest power of two, so that sweep points with
 // similar gaps share their κ nodes (and hence their self factors) exactly.
 func dyadic(x float64) float64 { return math.Exp2(math.Round(math.Log2(x))) }
@@ -536,7 +577,7 @@ func (r *runner) integrate(ctx context.Context) error {
 	kcs := sweepKappaScales(r.scale)
 	for i := range r.pts {
 		d := r.scale[i]
-		st[i] = &state{kc: kcs[i], cut: kappaCutoff / d, n: firstRule, f: make([][]float64, firstRule-1), done: !r.owns(i)}
+		st[i] = &state{kc: kcs[i], cut: r.cutoff / d, n: firstRule, f: make([][]float64, firstRule-1), done: !r.owns(i)}
 	}
 	for {
 		var reqs []request
@@ -660,7 +701,7 @@ func (r *runner) matsubara(ctx context.Context, size float64) error {
 		vals := make([][]float64, np)
 		reqs = reqs[:0]
 		for i := range r.pts {
-			if active[i] && kappa*r.scale[i] > kappaCutoff {
+			if active[i] && kappa*r.scale[i] > r.cutoff {
 				active[i] = false
 			}
 			if active[i] {
