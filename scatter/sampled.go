@@ -265,9 +265,9 @@ func (sp *sampledBasis) checks(i int, surf []*bem.Surface) []int {
 }
 
 // evaluateSampled is the two-body integrand by the sampled path at a
-// placement. It reports false, with no error, when the check rows and
-// columns show the point's block outside the bases by more than tol
-// (relative, Frobenius) times sampledShare.
+// placement. It reports false, with no error, when the error of the
+// point's block estimated from the check rows and columns (sampledBlock)
+// exceeds tol (relative, Frobenius) times sampledShare.
 func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, tol float64) (evaluation, bool, error) {
 	sp := sf.basis.sampled
 	s0, s1 := sp.side[0], sp.side[1]
@@ -316,9 +316,10 @@ func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []
 }
 
 // sampledBlock assembles the sub-block S = M01[E0, E1] of the placement
-// surf and returns the block in the bases X = A0 S A1ᵀ (p0×p1, M01 ≈ B0 X B1ᵀ), and whether
-// the interpolation agrees with full rows and columns of the block on the
-// check unknowns within tol, relative to the block. The block's error is
+// surf and returns the block in the bases, X = A0 S A1ᵀ (p0×p1, M01 ≈
+// B0 X B1ᵀ), and whether the interpolation agrees with full rows and
+// columns of the block on the check unknowns within tol, relative to the
+// block. The block's error is
 // estimated as if every row (column) erred like the checked ones on
 // average, the larger of
 //
