@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
@@ -64,13 +65,28 @@ const (
 // sideBasis is the basis of one body's side of the interaction blocks at
 // one κ: B (N×p) with orthonormal columns and its transpose (so that both
 // Bᵀ X and B C are plain products: gonum's transposed Gemm kernel is
-// several times slower), W = L^-1 B and Z = M^-1 B (N×p).
+// several times slower), W = L^-1 B and Z = M^-1 B (N×p). Only the
+// gradient of a point that takes the fit path needs Z (the sampled path
+// needs G alone), so Z is solved for on first use.
 type sideBasis struct {
-	b, bt, w, z blas64.General
-	g           blas64.General // Wᵀ W = Bᵀ M^-1 B (p×p)
+	b, bt, w blas64.General
+	g        blas64.General // Wᵀ W = Bᵀ M^-1 B (p×p)
+	l        blas64.Triangular
+	zOnce    sync.Once
+	z        blas64.General
 }
 
 func (sb *sideBasis) size() int { return sb.bt.Rows }
+
+// inverse returns Z = M^-1 B = L^-T W (N×p), solved for on the first call.
+// It is safe for concurrent use.
+func (sb *sideBasis) inverse() blas64.General {
+	sb.zOnce.Do(func() {
+		sb.z = copyGeneral(sb.w)
+		solveLowerTransInPlace(sb.l, sb.z)
+	})
+	return sb.z
+}
 
 // crossBasis is the sweep basis of both sides at one κ, with the compressed
 // blocks of the reference placements it was built from.
@@ -89,65 +105,86 @@ type crossBasis struct {
 // It returns nil, without error, when no reference block compresses.
 func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []placement) (*crossBasis, error) {
 	cb := &crossBasis{tol: basisTight * sys.compress.tol, refs: map[placement]*lowRank{}}
-	var us, vs []blas64.General
-	var thr []float64
-	for _, pl := range pls {
-		surf, err := sys.surfacesAt(pl)
+	// The references are compressed side by side (each compression is a
+	// sequence of small row and column assemblies that keeps one core busy
+	// at best), and so are the two sides' bases below.
+	lrs := make([]*lowRank, len(pls))
+	sizes := make([]float64, len(pls))
+	err := forEach(ctx, len(pls), sys.threads, func(ctx context.Context, j int) error {
+		surf, err := sys.surfacesAt(pls[j])
 		if err != nil {
-			return nil, err
+			return err
 		}
 		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], cb.tol)
 		if err != nil {
-			return nil, err
+			return err
 		}
-		if !ok {
-			cb.refs[pl] = nil // the point's own evaluation goes dense
-			continue
+		if ok {
+			lrs[j] = lr
+			_, sizes[j] = surfacesClose(surf[0], surf[1])
 		}
-		cb.refs[pl] = lr
-		if lr.rank() == 0 {
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	var us, vs []blas64.General
+	var thr []float64
+	for j, lr := range lrs {
+		cb.refs[pls[j]] = lr // nil: the point's own evaluation goes dense
+		if lr == nil || lr.rank() == 0 {
 			continue
 		}
 		sigma := columnNorms(lr.u)
 		us = append(us, lr.u)
 		vs = append(vs, scaledColumns(lr.v, sigma))
-		_, size := surfacesClose(surf[0], surf[1])
-		thr = append(thr, basisKeep*scaledTolerance(cb.tol, sf.kappa, size)*math.Sqrt(dot(sigma, sigma)))
+		thr = append(thr, basisKeep*scaledTolerance(cb.tol, sf.kappa, sizes[j])*math.Sqrt(dot(sigma, sigma)))
 	}
 	if len(us) == 0 {
 		return nil, nil
 	}
-	for i, xs := range [][]blas64.General{us, vs} {
-		bt, err := spanOf(xs, thr)
+	sampled := &sampledBasis{}
+	xs := [2][]blas64.General{us, vs}
+	err = forEach(ctx, 2, sys.threads, func(ctx context.Context, i int) error {
+		bt, err := spanOf(xs[i], thr)
 		if err != nil {
-			return nil, fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
 		}
-		sb := &sideBasis{b: transpose(bt), bt: bt}
+		sb := &sideBasis{b: transpose(bt), bt: bt, l: sf.f[i].l}
 		sb.w = copyGeneral(sb.b)
-		solveLower(sf.f[i].l, sb.w, sys.threads)
-		sb.z = copyGeneral(sb.w)
-		solveLowerTransInPlace(sf.f[i].l, sb.z)
+		solveLower(sb.l, sb.w, sys.threads)
 		sb.g = product(transpose(sb.w), sb.w)
 		cb.side[i] = sb
+		sampled.topo[i] = topologyOf(sys.surf[i])
+		if sampled.side[i], err = newSampledSide(sb, sampled.topo[i]); err != nil {
+			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
-	var err error
-	if cb.sampled, err = sys.sampledFor(cb); err != nil {
-		return nil, fmt.Errorf("scatter: sweep basis at κ = %g: %w", sf.kappa, err)
+	if sampled.side[0] != nil && sampled.side[1] != nil {
+		cb.sampled = sampled // nil where a side's basis cannot be interpolated
 	}
 	return cb, nil
 }
 
 // spanOf returns, transposed (p×N), an orthonormal basis of the directions
 // of the N×k_i matrices xs whose singular values exceed thr[i] once the
-// directions of the earlier matrices are removed: block Gram–Schmidt with
-// two projections (so that the basis stays orthonormal to rounding) and the
-// residual's directions from the eigenvectors of its Gram matrix.
+// directions of the earlier matrices are removed: block Gram–Schmidt, the
+// residual's directions from the eigenvectors of its Gram matrix, and a
+// second projection of the directions kept (so that the basis stays
+// orthonormal to rounding). One projection of the whole block is enough to
+// rank its directions: what rounding leaves of the basis in the residual
+// is of order 1e-16 of the block, far below the thresholds (a tenth of a
+// block tolerance: 7e-10 of the block at accuracy 1e-3 and the lowest κ of
+// BenchmarkSweep).
 func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
 	n := xs[0].Rows
 	bt := blas64.General{Rows: 0, Cols: n, Stride: n}
 	for i, x := range xs {
 		e := copyGeneral(x)
-		removeSpan(bt, e)
 		removeSpan(bt, e)
 		k := e.Cols
 		vals, vecs, err := gramEigen(e)
@@ -369,7 +406,7 @@ func (f *basisFit) inverse(i int, g *blas64.General) blas64.General {
 		}
 		return product(c, *g)
 	}
-	out := product(f.cb.side[i].z, times(f.c[i]))
+	out := product(f.cb.side[i].inverse(), times(f.c[i]))
 	if x := f.extra[i]; x != nil {
 		blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, x.z, times(x.d), 1, out)
 	}

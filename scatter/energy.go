@@ -354,18 +354,16 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 				return err
 			}
 		}
-		for ; i < len(reqs) && reqs[i].kappa == kappa; i++ {
-			rq := reqs[i]
-			sys := r.sys
-			if f := r.looseness(rq); f > 1 {
-				loose := *r.sys
-				loose.compress.tol *= f
-				sys = &loose
-			}
-			ev, err := sys.evaluate(ctx, sf, r.placementOf(rq.p, 0), grad)
-			if err != nil {
-				return fmt.Errorf("sweep point %d: %w", rq.p+1, err)
-			}
+		j := i
+		for j < len(reqs) && reqs[j].kappa == kappa {
+			j++
+		}
+		evs, err := r.evaluateAt(ctx, sf, reqs[i:j], grad)
+		if err != nil {
+			return err
+		}
+		for k, rq := range reqs[i:j] {
+			ev := evs[k]
 			rq.dst[qLogDet] = ev.logDet
 			r.pts[rq.p].Ranks = mergeRanks(r.pts[rq.p].Ranks, ev.ranks)
 			if grad {
@@ -390,6 +388,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 			}
 			r.addSample(rq)
 		}
+		i = j
 		if err := ctx.Err(); err != nil {
 			return err
 		}
@@ -397,10 +396,59 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 	return nil
 }
 
+// evaluateAt returns the integrand of the requests reqs, all at the κ of
+// sf, in their order. Where the κ has a sampled sweep basis, the sampled
+// path (sampled.go) is tried for all of them side by side first: it is
+// small (matrices of the basis' size) and partly serial, so that two
+// points at once keep the cores busy; the points it does not take are then
+// evaluated one after the other, as all points are without it.
+func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request, grad bool) ([]evaluation, error) {
+	evs := make([]evaluation, len(reqs))
+	systems := make([]*system, len(reqs))
+	for k, rq := range reqs {
+		systems[k] = r.sys
+		if f := r.looseness(rq); f > 1 {
+			loose := *r.sys
+			loose.compress.tol *= f
+			systems[k] = &loose
+		}
+	}
+	done := make([]bool, len(reqs))
+	tried := sf.basis != nil && sf.basis.sampled != nil && r.sys.compress.on
+	if tried {
+		err := forEach(ctx, len(reqs), r.sys.threads, func(ctx context.Context, k int) error {
+			var err error
+			evs[k], done[k], err = systems[k].trySampled(ctx, sf, r.placementOf(reqs[k].p, 0), grad)
+			if err != nil {
+				return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
+			}
+			return nil
+		})
+		if err != nil {
+			return nil, err
+		}
+	}
+	for k, rq := range reqs {
+		if done[k] {
+			continue
+		}
+		evaluate := systems[k].evaluate
+		if tried {
+			evaluate = systems[k].evaluateCompressed
+		}
+		var err error
+		if evs[k], err = evaluate(ctx, sf, r.placementOf(rq.p, 0), grad); err != nil {
+			return nil, fmt.Errorf("sweep point %d: %w", rq.p+1, err)
+		}
+	}
+	return evs, nil
+}
+
 // basisRefs returns the reference placements of the sweep basis at κ
-// (basis.go): basisRefs points spread evenly over those of the sweep whose
-// cutoff admits κ, or nil when the scene is not two bodies in free space
-// with compression on, or fewer than basisMinPoints points admit κ. The
+// (basis.go): basisRefs points spread over those of the sweep whose
+// cutoff admits κ (evenly in the inverse gap), or nil when the scene is
+// not two bodies in free space with compression on, or fewer than
+// basisMinPoints points admit κ. The
 // choice depends on the whole sweep only, never on which points a run
 // computes or has stored, so every shard and every resumed run builds the
 // same basis and computes a point alike.
@@ -418,9 +466,44 @@ func (r *runner) basisRefs(kappa float64) []placement {
 	if len(admit) < basisMinPoints {
 		return nil
 	}
+	// The references are spread evenly along the sweep in the inverse of
+	// the gap, Σ |Δoffset| / gap² (for a gap sweep the step of 1/gap): the
+	// number of directions a block needs grows about as the inverse gap
+	// (the finer current patterns of a narrower contact zone), so equal
+	// steps add about equally many new directions and close points get
+	// close references. Measured on the 20-point sweep of BenchmarkSweep
+	// (gaps R/2 to 2R): 9 evaluations went back to the compressed path
+	// with the references evenly over the points, 8 with them evenly in
+	// ln(gap), none evenly in 1/gap. A sweep with turns, or one that does
+	// not move, spreads them evenly over its points.
+	at := make([]float64, len(admit))
+	for k := 1; k < len(admit); k++ {
+		a, b := admit[k-1], admit[k]
+		step := 1.0
+		if len(r.sweep.Turns) == 0 {
+			if g := math.Min(r.scale[a], r.scale[b]); g > 0 {
+				step = r3.Norm(r3.Sub(r.sweep.Offsets[b], r.sweep.Offsets[a])) / (g * g)
+			}
+		}
+		at[k] = at[k-1] + step
+	}
+	if at[len(at)-1] == 0 {
+		for k := range at {
+			at[k] = float64(k)
+		}
+	}
 	refs := make([]placement, basisRefs)
+	used := make([]bool, len(admit))
 	for j := range refs {
-		refs[j] = r.placementOf(admit[(j*(len(admit)-1)+(basisRefs-1)/2)/(basisRefs-1)], 0)
+		target := at[len(at)-1] * float64(j) / float64(basisRefs-1)
+		best := -1
+		for k := range admit {
+			if !used[k] && (best < 0 || math.Abs(at[k]-target) < math.Abs(at[best]-target)) {
+				best = k
+			}
+		}
+		used[best] = true
+		refs[j] = r.placementOf(admit[best], 0)
 	}
 	return refs
 }

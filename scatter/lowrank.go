@@ -53,20 +53,17 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 // misses. Before that, a point the basis' sampled path (sampled.go) takes
 // skips its own compression.
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
-	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
-	_, size := surfacesClose(surf[0], surf[1])
-	tol := scaledTolerance(sys.compress.tol, sf.kappa, size) // relative, of this block
-	if sys.compress.on && sf.basis != nil && sf.basis.sampled != nil {
-		ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, tol)
-		if err != nil {
-			return evaluation{}, err
-		}
-		if ok {
-			rec.Rank, rec.Compressed, rec.Basis, rec.Sampled = sf.basis.sampled.rank(), 1, 1, 1
-			ev.ranks = []BlockRank{rec}
-			return ev, nil
-		}
+	if ev, ok, err := sys.sampledTwo(ctx, sf, surf, pl, grad); err != nil || ok {
+		return ev, err
 	}
+	return sys.compressedTwo(ctx, sf, surf, pl, grad)
+}
+
+// compressedTwo is evaluateTwo without the sampled path: the compressed
+// path, through the sweep basis where κ has one, or the dense one where
+// the block does not compress.
+func (sys *system) compressedTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
+	rec := BlockRank{Rows: sys.names[0], Cols: sys.names[1]}
 	if sys.compress.on {
 		lr, ok, hit := sf.basis.cached(pl, sys.compress.tol)
 		var err error
@@ -79,7 +76,7 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 		if ok {
 			var fit *basisFit
 			if sf.basis != nil && lr.rank() > 0 {
-				fit, err = sf.basis.fit(sys, sf, lr, basisShare*tol)
+				fit, err = sf.basis.fit(sys, sf, lr, basisShare*sys.blockTolerance(sf, surf))
 				if err != nil {
 					return evaluation{}, err
 				}
@@ -97,6 +94,47 @@ func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem
 	rec.Dense = 1
 	ev.ranks = []BlockRank{rec}
 	return ev, err
+}
+
+// blockTolerance is the relative tolerance of the interaction block at
+// the placement surf (scaledTolerance of the run's block tolerance).
+func (sys *system) blockTolerance(sf *selfFactors, surf []*bem.Surface) float64 {
+	_, size := surfacesClose(surf[0], surf[1])
+	return scaledTolerance(sys.compress.tol, sf.kappa, size)
+}
+
+// sampledTwo is the two-body integrand by the sweep basis' sampled path
+// (sampled.go). It reports false, with no error, when κ has no sampled
+// path or the point's block does not lie in the bases closely enough.
+func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, bool, error) {
+	if !sys.compress.on || sf.basis == nil || sf.basis.sampled == nil {
+		return evaluation{}, false, nil
+	}
+	ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, sys.blockTolerance(sf, surf))
+	if err != nil || !ok {
+		return evaluation{}, false, err
+	}
+	ev.ranks = []BlockRank{{Rows: sys.names[0], Cols: sys.names[1], Rank: sf.basis.sampled.rank(), Compressed: 1, Basis: 1, Sampled: 1}}
+	return ev, true, nil
+}
+
+// trySampled is sampledTwo at the placement pl.
+func (sys *system) trySampled(ctx context.Context, sf *selfFactors, pl placement, grad bool) (evaluation, bool, error) {
+	surf, err := sys.surfacesAt(pl)
+	if err != nil {
+		return evaluation{}, false, err
+	}
+	return sys.sampledTwo(ctx, sf, surf, pl, grad)
+}
+
+// evaluateCompressed is compressedTwo at the placement pl: the integrand of
+// a point the sampled path did not take (trySampled).
+func (sys *system) evaluateCompressed(ctx context.Context, sf *selfFactors, pl placement, grad bool) (evaluation, error) {
+	surf, err := sys.surfacesAt(pl)
+	if err != nil {
+		return evaluation{}, err
+	}
+	return sys.compressedTwo(ctx, sf, surf, pl, grad)
 }
 
 // evaluatePairLowRank is evaluatePair with M01 ≈ U Vᵀ of rank r. With

@@ -187,21 +187,6 @@ type sampledBasis struct {
 	topo [2]edgeTopology
 }
 
-// sampledFor builds the sampled path for the bases of cb, nil when one side
-// cannot be interpolated.
-func (sys *system) sampledFor(cb *crossBasis) (*sampledBasis, error) {
-	sp := &sampledBasis{}
-	for i := range sp.side {
-		sp.topo[i] = topologyOf(sys.surf[i])
-		sd, err := newSampledSide(cb.side[i], sp.topo[i])
-		if err != nil || sd == nil {
-			return nil, err
-		}
-		sp.side[i] = sd
-	}
-	return sp, nil
-}
-
 // rank is the rank of the sampled path's approximation, min(p0, p1).
 func (sp *sampledBasis) rank() int { return min(sp.side[0].t.Rows, sp.side[1].t.Rows) }
 
