@@ -203,7 +203,7 @@ func TestBasisShardsAlike(t *testing.T) {
 	}
 	bodies := pairScene(t, 3, 5)
 	var offs []r3.Vec
-	for i := 0; i < basisMinPoints; i++ {
+	for i := 0; i < 8; i++ { // at least basisMinPoints
 		offs = append(offs, r3.Vec{Z: 0.2 * float64(i)})
 	}
 	sweep := Sweep{Body: 1, Direction: r3.Vec{Z: 1}, Offsets: offs, Centre: r3.Vec{Z: 5}}
@@ -277,7 +277,7 @@ func TestBasisAngleSweep(t *testing.T) {
 	bodies := []Body{{Name: "ball", Mesh: sphere(t, 3)}, {Name: "plate", Mesh: plate}}
 	var offs []r3.Vec
 	var turns []Turn
-	for i := 0; i < basisMinPoints; i++ {
+	for i := 0; i < 8; i++ { // at least basisMinPoints
 		offs = append(offs, r3.Vec{})
 		turns = append(turns, Turn{Axis: r3.Vec{Y: 1}, Angle: 0.05 * float64(i), Pivot: r3.Vec{Z: 4}})
 	}
