@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/fluctus/fluctus/bem"
 	"github.com/fluctus/fluctus/mesh"
 )
 
@@ -401,7 +402,8 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 // path (sampled.go) is tried for all of them side by side first: it is
 // small (matrices of the basis' size) and partly serial, so that two
 // points at once keep the cores busy; the points it does not take are then
-// evaluated one after the other, as all points are without it.
+// evaluated one after the other on the surfaces already placed for the
+// attempt, as all points are without it.
 func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request, grad bool) ([]evaluation, error) {
 	evs := make([]evaluation, len(reqs))
 	systems := make([]*system, len(reqs))
@@ -413,32 +415,42 @@ func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request
 			systems[k] = &loose
 		}
 	}
-	done := make([]bool, len(reqs))
-	tried := sf.basis != nil && sf.basis.sampled != nil && r.sys.compress.on
-	if tried {
-		err := forEach(ctx, len(reqs), r.sys.threads, func(ctx context.Context, k int) error {
+	if !r.sys.hasSampled(sf) {
+		for k, rq := range reqs {
 			var err error
-			evs[k], done[k], err = systems[k].trySampled(ctx, sf, r.placementOf(reqs[k].p, 0), grad)
-			if err != nil {
-				return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
+			if evs[k], err = systems[k].evaluate(ctx, sf, r.placementOf(rq.p, 0), grad); err != nil {
+				return nil, fmt.Errorf("sweep point %d: %w", rq.p+1, err)
 			}
-			return nil
-		})
-		if err != nil {
-			return nil, err
 		}
+		return evs, nil
 	}
-	for k, rq := range reqs {
-		if done[k] {
+	// rest[k] keeps the surfaces of a point the sampled path did not take.
+	rest := make([][]*bem.Surface, len(reqs))
+	err := forEach(ctx, len(reqs), r.sys.threads, func(ctx context.Context, k int) error {
+		pl := r.placementOf(reqs[k].p, 0)
+		surf, err := systems[k].surfacesAt(pl)
+		if err != nil {
+			return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
+		}
+		var ok bool
+		if evs[k], ok, err = systems[k].sampledTwo(ctx, sf, surf, pl, grad); err != nil {
+			return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
+		}
+		if !ok {
+			rest[k] = surf
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	for k, surf := range rest {
+		if surf == nil {
 			continue
 		}
-		evaluate := systems[k].evaluate
-		if tried {
-			evaluate = systems[k].evaluateCompressed
-		}
 		var err error
-		if evs[k], err = evaluate(ctx, sf, r.placementOf(rq.p, 0), grad); err != nil {
-			return nil, fmt.Errorf("sweep point %d: %w", rq.p+1, err)
+		if evs[k], err = systems[k].compressedTwo(ctx, sf, surf, r.placementOf(reqs[k].p, 0), grad); err != nil {
+			return nil, fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
 		}
 	}
 	return evs, nil
@@ -448,10 +460,9 @@ func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request
 // (basis.go): basisRefs points spread over those of the sweep whose
 // cutoff admits κ (evenly in the inverse gap), or nil when the scene is
 // not two bodies in free space with compression on, or fewer than
-// basisMinPoints points admit κ. The
-// choice depends on the whole sweep only, never on which points a run
-// computes or has stored, so every shard and every resumed run builds the
-// same basis and computes a point alike.
+// basisMinPoints points admit κ. The choice depends on the whole sweep
+// only, never on which points a run computes or has stored, so every shard
+// and every resumed run builds the same basis and computes a point alike.
 func (r *runner) basisRefs(kappa float64) []placement {
 	sys := r.sys
 	if !sys.compress.on || len(sys.surf) != 2 || sys.plane != nil || sys.mats != nil {
@@ -481,9 +492,8 @@ func (r *runner) basisRefs(kappa float64) []placement {
 		a, b := admit[k-1], admit[k]
 		step := 1.0
 		if len(r.sweep.Turns) == 0 {
-			if g := math.Min(r.scale[a], r.scale[b]); g > 0 {
-				step = r3.Norm(r3.Sub(r.sweep.Offsets[b], r.sweep.Offsets[a])) / (g * g)
-			}
+			g := math.Min(r.scale[a], r.scale[b]) // positive: gapsAndScales rejects touching bodies
+			step = r3.Norm(r3.Sub(r.sweep.Offsets[b], r.sweep.Offsets[a])) / (g * g)
 		}
 		at[k] = at[k-1] + step
 	}

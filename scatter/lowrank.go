@@ -103,11 +103,17 @@ func (sys *system) blockTolerance(sf *selfFactors, surf []*bem.Surface) float64 
 	return scaledTolerance(sys.compress.tol, sf.kappa, size)
 }
 
+// hasSampled tells whether a two-body evaluation at the κ of sf tries the
+// sweep basis' sampled path (sampled.go) first.
+func (sys *system) hasSampled(sf *selfFactors) bool {
+	return sys.compress.on && sf.basis != nil && sf.basis.sampled != nil
+}
+
 // sampledTwo is the two-body integrand by the sweep basis' sampled path
 // (sampled.go). It reports false, with no error, when κ has no sampled
 // path or the point's block does not lie in the bases closely enough.
 func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, bool, error) {
-	if !sys.compress.on || sf.basis == nil || sf.basis.sampled == nil {
+	if !sys.hasSampled(sf) {
 		return evaluation{}, false, nil
 	}
 	ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, sys.blockTolerance(sf, surf))
@@ -116,25 +122,6 @@ func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.
 	}
 	ev.ranks = []BlockRank{{Rows: sys.names[0], Cols: sys.names[1], Rank: sf.basis.sampled.rank(), Compressed: 1, Basis: 1, Sampled: 1}}
 	return ev, true, nil
-}
-
-// trySampled is sampledTwo at the placement pl.
-func (sys *system) trySampled(ctx context.Context, sf *selfFactors, pl placement, grad bool) (evaluation, bool, error) {
-	surf, err := sys.surfacesAt(pl)
-	if err != nil {
-		return evaluation{}, false, err
-	}
-	return sys.sampledTwo(ctx, sf, surf, pl, grad)
-}
-
-// evaluateCompressed is compressedTwo at the placement pl: the integrand of
-// a point the sampled path did not take (trySampled).
-func (sys *system) evaluateCompressed(ctx context.Context, sf *selfFactors, pl placement, grad bool) (evaluation, error) {
-	surf, err := sys.surfacesAt(pl)
-	if err != nil {
-		return evaluation{}, err
-	}
-	return sys.compressedTwo(ctx, sf, surf, pl, grad)
 }
 
 // evaluatePairLowRank is evaluatePair with M01 ≈ U Vᵀ of rank r. With

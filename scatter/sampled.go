@@ -304,9 +304,8 @@ func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []
 // surf and returns the block in the bases, X = A0 S A1ᵀ (p0×p1, M01 ≈
 // B0 X B1ᵀ), and whether the interpolation agrees with full rows and
 // columns of the block on the check unknowns within tol, relative to the
-// block. The block's error is
-// estimated as if every row (column) erred like the checked ones on
-// average, the larger of
+// block. The block's error is estimated as if every row (column) erred
+// like the checked ones on average, the larger of
 //
 //	‖E‖²_F ≈ (N0/c0) Σ_checked rows ‖E_r‖²,  (N1/c1) Σ_checked columns ‖E_c‖²,
 //
