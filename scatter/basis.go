@@ -68,7 +68,8 @@ const (
 )
 
 // sideBasis is the basis of one body's side of the interaction blocks at
-// one κ: B (N×p) with orthonormal columns and its transpose (so that both
+// one κ, in RWG or in balanced coordinates (balance.go): B (N×p) with
+// orthonormal columns and its transpose (so that both
 // Bᵀ X and B C are plain products: gonum's transposed Gemm kernel is
 // several times slower), W = L^-1 B and Z = M^-1 B (N×p). Only the
 // gradient of a point that takes the fit path needs Z (the sampled path
@@ -99,6 +100,11 @@ type crossBasis struct {
 	side [2]*sideBasis
 	tol  float64 // block tolerance the references were compressed to
 	refs map[placement]*lowRank
+	// balanced tells that the bases live in balanced coordinates
+	// (balance.go): the sampled path samples balanced functions, and the
+	// fit path (RWG blocks in orthonormal RWG bases) and the references'
+	// blocks are not available.
+	balanced bool
 	// sampled is the sampled path (sampled.go), nil where a side's basis
 	// cannot be interpolated.
 	sampled *sampledBasis
@@ -110,23 +116,36 @@ type crossBasis struct {
 // It returns nil, without error, when no reference block compresses.
 func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []placement) (*crossBasis, error) {
 	cb := &crossBasis{tol: basisTight * sys.compress.tol, refs: map[placement]*lowRank{}}
+	bal, err := sys.balanceAt(sf)
+	if err != nil {
+		return nil, err
+	}
+	cb.balanced = bal[0] != nil
 	// The references are compressed side by side (each compression is a
 	// sequence of small row and column assemblies that keeps one core busy
 	// at best), and so are the two sides' bases below.
 	lrs := make([]*lowRank, len(pls))
-	sizes := make([]float64, len(pls))
-	err := forEach(ctx, len(pls), sys.threads, func(ctx context.Context, j int) error {
+	tols := make([]float64, len(pls)) // each reference's own block tolerance
+	err = forEach(ctx, len(pls), sys.threads, func(ctx context.Context, j int) error {
 		surf, err := sys.surfacesAt(pls[j])
 		if err != nil {
 			return err
 		}
-		lr, ok, err := sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], cb.tol)
+		var lr *lowRank
+		var ok bool
+		if cb.balanced {
+			lr, ok, err = sys.compressBalanced(ctx, sf.op, surf[0], surf[1], bal, cb.tol)
+			tols[j] = cb.tol
+		} else {
+			lr, ok, err = sys.compressCross(ctx, sf.op, sf.kappa, surf[0], surf[1], cb.tol)
+			_, size := surfacesClose(surf[0], surf[1])
+			tols[j] = scaledTolerance(cb.tol, sf.kappa, size)
+		}
 		if err != nil {
 			return err
 		}
 		if ok {
 			lrs[j] = lr
-			_, sizes[j] = surfacesClose(surf[0], surf[1])
 		}
 		return nil
 	})
@@ -136,14 +155,18 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 	var us, vs []blas64.General
 	var thr []float64
 	for j, lr := range lrs {
-		cb.refs[pls[j]] = lr // nil: the point's own evaluation goes dense
+		if !cb.balanced {
+			// nil: the point's own evaluation goes dense. Balanced blocks
+			// are not the RWG ones the compressed path reduces.
+			cb.refs[pls[j]] = lr
+		}
 		if lr == nil || lr.rank() == 0 {
 			continue
 		}
 		sigma := columnNorms(lr.u)
 		us = append(us, lr.u)
 		vs = append(vs, scaledColumns(lr.v, sigma))
-		thr = append(thr, basisKeep*scaledTolerance(cb.tol, sf.kappa, sizes[j])*math.Sqrt(dot(sigma, sigma)))
+		thr = append(thr, basisKeep*tols[j]*math.Sqrt(dot(sigma, sigma)))
 	}
 	if len(us) == 0 {
 		return nil, nil
@@ -157,10 +180,15 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 		}
 		sb := &sideBasis{b: transpose(bt), bt: bt, l: sf.f[i].l}
 		sb.w = copyGeneral(sb.b)
+		if bal[i] != nil {
+			// W = L^-1 (T S)^-T B': G = B'ᵀ M'^-1 B' with M' = (T S)ᵀ M (T S).
+			bal[i].invTransRows(sb.w.Data, sb.b.Data, sb.b.Cols)
+		}
 		solveLower(sb.l, sb.w, sys.threads)
 		sb.g = product(transpose(sb.w), sb.w)
 		cb.side[i] = sb
 		sampled.topo[i] = topologyOf(sys.surf[i])
+		sampled.topo[i].bal = bal[i]
 		if sampled.side[i], err = newSampledSide(sb, sampled.topo[i]); err != nil {
 			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
 		}

@@ -75,7 +75,7 @@ func (sys *system) compressedTwo(ctx context.Context, sf *selfFactors, surf []*b
 		}
 		if ok {
 			var fit *basisFit
-			if sf.basis != nil && lr.rank() > 0 {
+			if sf.basis != nil && !sf.basis.balanced && lr.rank() > 0 {
 				fit, err = sf.basis.fit(sys, sf, lr, basisShare*sys.blockTolerance(sf, surf))
 				if err != nil {
 					return evaluation{}, err
@@ -116,7 +116,11 @@ func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.
 	if !sys.hasSampled(sf) {
 		return evaluation{}, false, nil
 	}
-	ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, sys.blockTolerance(sf, surf))
+	tol := sys.blockTolerance(sf, surf)
+	if sf.basis.balanced {
+		tol = sys.compress.tol // the balancing replaces the (κa)² tightening
+	}
+	ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, tol)
 	if err != nil || !ok {
 		return evaluation{}, false, err
 	}

@@ -77,6 +77,12 @@ type sampledSide struct {
 	rgt   blas64.General // R_iᵀ
 	t, tt blas64.General // T_i = R_i A_i (p_i × m_i) and its transpose
 	basis *sideBasis     // B_i
+	// In balanced coordinates pick lists balanced functions; supp lists
+	// the RWG edges they use, ascending, and terms[k] the edges of pick[k]
+	// on that list: S = P0ᵀ M01[supp0, supp1] P1 with the sparse P_i of
+	// terms (balanced). Both are nil in RWG coordinates.
+	supp  []int
+	terms [][]term
 }
 
 // newSampledSide picks the sampled unknowns of one side from its basis sb
@@ -151,6 +157,9 @@ func newSampledSide(sb *sideBasis, basis edgeTopology) (*sampledSide, error) {
 	ru := upperOf(blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: p, Stride: g.Stride, Data: g.Data})
 	rg := blas64.General{Rows: p, Cols: p, Stride: ru.Stride, Data: ru.Data}
 	sd := &sampledSide{pick: pick, basis: sb, rg: rg, rgt: transpose(rg)}
+	if basis.bal != nil {
+		sd.supp, sd.terms = supportOf(basis.bal, pick)
+	}
 	sd.a = am.RawMatrix()
 	sd.at = transpose(sd.a)
 	sd.t = product(rg, sd.a)
@@ -158,17 +167,42 @@ func newSampledSide(sb *sideBasis, basis edgeTopology) (*sampledSide, error) {
 	return sd, nil
 }
 
-// edgeTopology is the edge–panel incidence of one body's RWG basis.
+// edgeTopology is the edge–panel incidence of one body's RWG basis, and
+// the balanced coordinates the sampled unknowns are taken in (nil for RWG
+// ones).
 type edgeTopology struct {
 	panels [][2]int // the two panels of each edge
 	edges  [][3]int // the three edges of each panel
+	bal    *balance
 }
 
 // complete returns the unknowns whose two panels both carry one of the
 // listed unknowns, ascending: the sub-block of the listed rows costs the
 // pairs of those panels, which give the entries of the completed rows too.
+// Balanced functions count as carried when every edge they use has both
+// its panels among those of the listed functions' edges.
 func (et edgeTopology) complete(list []int) []int {
 	on := make([]bool, len(et.edges))
+	if et.bal != nil {
+		for _, j := range list {
+			edges, _ := et.bal.lt.Column(j)
+			for _, e := range edges {
+				on[et.panels[e][0]], on[et.panels[e][1]] = true, true
+			}
+		}
+		var out []int
+		for j := 0; j < et.bal.lt.Len(); j++ {
+			edges, _ := et.bal.lt.Column(j)
+			in := true
+			for _, e := range edges {
+				in = in && on[et.panels[e][0]] && on[et.panels[e][1]]
+			}
+			if in {
+				out = append(out, j)
+			}
+		}
+		return out
+	}
 	for _, e := range list {
 		on[et.panels[e][0]], on[et.panels[e][1]] = true, true
 	}
@@ -214,8 +248,17 @@ func (sp *sampledBasis) checks(i int, surf []*bem.Surface) []int {
 		d float64
 	}
 	var cs []cand
+	if bl := sp.topo[i].bal; bl != nil {
+		// Balanced check functions, placed at their edges' midpoints.
+		for j := 0; j < bl.lt.Len(); j++ {
+			if !in[j] {
+				p := bl.position(own, j)
+				cs = append(cs, cand{j, boxGap(lo, hi, p, p)})
+			}
+		}
+	}
 	for e, ed := range own.Basis.Edges {
-		if in[e] {
+		if in[e] || sp.topo[i].bal != nil {
 			continue
 		}
 		v := own.Panels[ed.Plus].V
@@ -287,11 +330,19 @@ func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []
 	}
 	// H = T0ᵀ Z T1 on E0 × E1 (m0×m1); d ln det = -2 <H, dS>.
 	h := product(s0.tt, product(z, s1.t))
+	rows, cols := s0.pick, s1.pick
+	if s0.supp != nil {
+		// <H, dS> = <P0 H P1ᵀ, dM01[supp0, supp1]>.
+		hr := make([]float64, len(s0.supp)*len(s1.supp))
+		balancedWeight(hr, h.Data, len(s1.supp), h.Cols, s0.terms, s1.terms)
+		h = blas64.General{Rows: len(s0.supp), Cols: len(s1.supp), Stride: len(s1.supp), Data: hr}
+		rows, cols = s0.supp, s1.supp
+	}
 	var mot bem.Motion
 	if sys.moving == 1 {
-		mot, err = sys.asm.CrossGradientBlock(ctx, h.Data, sf.op, surf[0], surf[1], pl.centre, s0.pick, s1.pick)
+		mot, err = sys.asm.CrossGradientBlock(ctx, h.Data, sf.op, surf[0], surf[1], pl.centre, rows, cols)
 	} else {
-		mot, err = sys.asm.CrossGradientBlock(ctx, transpose(h).Data, sf.op, surf[1], surf[0], pl.centre, s1.pick, s0.pick)
+		mot, err = sys.asm.CrossGradientBlock(ctx, transpose(h).Data, sf.op, surf[1], surf[0], pl.centre, cols, rows)
 	}
 	if err != nil {
 		return evaluation{}, false, err
@@ -319,7 +370,14 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 	s0, s1 := sp.side[0], sp.side[1]
 	m0, m1 := len(s0.pick), len(s1.pick)
 	s := blas64.General{Rows: m0, Cols: m1, Stride: m1, Data: make([]float64, m0*m1)}
-	if err := sys.asm.CrossBlock(ctx, s.Data, sf.op, surf[0], surf[1], s0.pick, s1.pick); err != nil {
+	if s0.supp != nil {
+		n0, n1 := len(s0.supp), len(s1.supp)
+		raw := make([]float64, n0*n1)
+		if err := sys.asm.CrossBlock(ctx, raw, sf.op, surf[0], surf[1], s0.supp, s1.supp); err != nil {
+			return x, false, err
+		}
+		balancedSub(s.Data, raw, n1, s0.terms, s1.terms)
+	} else if err := sys.asm.CrossBlock(ctx, s.Data, sf.op, surf[0], surf[1], s0.pick, s1.pick); err != nil {
 		return x, false, err
 	}
 	x = product(product(s0.a, s), s1.at)
@@ -333,9 +391,18 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 		}
 		errSq = max(errSq, sum*float64(n)/float64(c))
 	}
+	var bs *balancedSource // exact balanced rows and columns, if balanced
+	if sp.topo[0].bal != nil {
+		bs = newBalancedSource(sys.asm, sf.op, surf[0], surf[1], [2]*balance{sp.topo[0].bal, sp.topo[1].bal})
+	}
 	if rows := sp.checks(0, surf); len(rows) > 0 {
 		exact := make([]float64, len(rows)*surf[1].Len())
-		if err := sys.asm.CrossRows(ctx, exact, sf.op, surf[0], surf[1], rows); err != nil {
+		if bs != nil {
+			err = bs.rows(ctx, exact, rows)
+		} else {
+			err = sys.asm.CrossRows(ctx, exact, sf.op, surf[0], surf[1], rows)
+		}
+		if err != nil {
 			return x, false, err
 		}
 		// B0[rows, :] X B1ᵀ, c×N1
@@ -343,7 +410,12 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 	}
 	if cols := sp.checks(1, surf); len(cols) > 0 {
 		exact := make([]float64, len(cols)*surf[0].Len())
-		if err := sys.asm.CrossColumns(ctx, exact, sf.op, surf[0], surf[1], cols); err != nil {
+		if bs != nil {
+			err = bs.cols(ctx, exact, cols)
+		} else {
+			err = sys.asm.CrossColumns(ctx, exact, sf.op, surf[0], surf[1], cols)
+		}
+		if err != nil {
 			return x, false, err
 		}
 		// B1[cols, :] Xᵀ B0ᵀ, c×N0

@@ -34,6 +34,9 @@ type system struct {
 	// compress says whether interaction blocks are compressed (compress.go);
 	// the zero value keeps them dense.
 	compress compression
+	// loops holds each body's loop–tree basis (balance.go), nil for a
+	// body that has none (a surface with handles).
+	loops []*mesh.LoopTree
 	// mats holds the body materials when any body is a real (finite-ε)
 	// one (dielectric.go); nil keeps the perfect-conductor path.
 	mats *materials
@@ -70,6 +73,13 @@ func newSystem(bodies []Body, moving, threads int, plane *Plane) (*system, error
 		}
 		sys.names = append(sys.names, b.Name)
 		sys.surf = append(sys.surf, s)
+		lt, err := mesh.NewLoopTree(basis)
+		if err != nil {
+			// Without it the sweep basis stays in RWG coordinates at low
+			// κ, with the tightened tolerance: slower, as accurate.
+			lt = nil
+		}
+		sys.loops = append(sys.loops, lt)
 		orig := -1
 		for j := range sys.surf[:len(sys.surf)-1] {
 			if isTranslate(bodies[j].Mesh, b.Mesh) {
