@@ -7,7 +7,6 @@ import (
 	"slices"
 
 	"gonum.org/v1/gonum/blas/blas64"
-	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/fluctus/fluctus/bem"
 	"github.com/fluctus/fluctus/mesh"
@@ -120,20 +119,6 @@ func (bl *balance) invTransRows(dst, src []float64, k int) {
 	bl.lt.SolveTrans(dst, tmp, k)
 }
 
-// position is where function j of surface s sits, for choosing check
-// functions near the other body: a loop at the mean of its edges'
-// midpoints (around its vertex), a tree at its edge's midpoint.
-func (bl *balance) position(s *bem.Surface, j int) r3.Vec {
-	edges, _ := bl.lt.Column(j)
-	var p r3.Vec
-	for _, e := range edges {
-		ed := s.Basis.Edges[e]
-		v := s.Basis.Mesh.Vertices
-		p = r3.Add(p, r3.Scale(0.5, r3.Add(v[ed.Vertices[0]], v[ed.Vertices[1]])))
-	}
-	return r3.Scale(1/float64(len(edges)), p)
-}
-
 func scaleRow(a float64, x []float64) {
 	for i := range x {
 		x[i] *= a
@@ -209,11 +194,11 @@ func (s *balancedSource) rows(ctx context.Context, dst []float64, fns []int) err
 	comb := make([]float64, len(fns)*n)
 	for k, terms := range at {
 		for _, t := range terms {
-			blas64.Axpy(t.c, vec(blk[t.pos*n:(t.pos+1)*n]), vec(comb[k*n:(k+1)*n]))
+			axpy(t.c, blk[t.pos*n:(t.pos+1)*n], comb[k*n:(k+1)*n])
 		}
 	}
-	// Each combined row r becomes (T1 S1)ᵀ r: transpose to N1 × len(fns).
-	return s.mapRows(dst, comb, len(fns), n, s.bal[1])
+	mapRows(dst, comb, len(fns), n, s.bal[1])
+	return nil
 }
 
 // cols writes columns fns of M' (len(fns) × N0, each column stored as a
@@ -230,24 +215,25 @@ func (s *balancedSource) cols(ctx context.Context, dst []float64, fns []int) err
 	for k, terms := range at {
 		c := comb[k*m : (k+1)*m]
 		for _, t := range terms {
-			blas64.Axpy(t.c, blas64.Vector{N: m, Inc: ne, Data: blk[t.pos:]}, vec(c))
+			blas64.Axpy(t.c, blas64.Vector{N: m, Inc: ne, Data: blk[t.pos:]}, blas64.Vector{N: m, Inc: 1, Data: c})
 		}
 	}
-	return s.mapRows(dst, comb, len(fns), m, s.bal[0])
+	mapRows(dst, comb, len(fns), m, s.bal[0])
+	return nil
 }
 
 // mapRows sets each of the c rows of dst (c × n) to (T S)ᵀ of the same row
-// of src, for the balance bl of the n-side.
-func (s *balancedSource) mapRows(dst, src []float64, c, n int, bl *balance) error {
+// of src, for the balance bl of the n-side: the rows are transposed to
+// n × c, mapped, and transposed back.
+func mapRows(dst, src []float64, c, n int, bl *balance) {
 	if c == 1 {
 		bl.transRows(dst[:n], src[:n], 1)
-		return nil
+		return
 	}
 	t := transpose(blas64.General{Rows: c, Cols: n, Stride: n, Data: src})
 	out := make([]float64, n*c)
 	bl.transRows(out, t.Data, c)
 	copy(dst[:c*n], transpose(blas64.General{Rows: n, Cols: c, Stride: c, Data: out}).Data)
-	return nil
 }
 
 // term is one RWG edge of a balanced function: its position in a support
@@ -286,8 +272,6 @@ func supportOf(bl *balance, fns []int) ([]int, [][]term) {
 	return edges, at
 }
 
-func vec(x []float64) blas64.Vector { return blas64.Vector{N: len(x), Inc: 1, Data: x} }
-
 // balancedSub sets s (m0×m1) to P0ᵀ raw P1 for the RWG sub-block raw
 // (len(supp0) × n1, row major) and the terms of the balanced functions on
 // both sides (P_i sparse, a few edges per function).
@@ -309,7 +293,7 @@ func balancedSub(s, raw []float64, n1 int, t0, t1 [][]term) {
 	for i, ts := range t0 {
 		out := s[i*m1 : (i+1)*m1]
 		for _, t := range ts {
-			axpyTo(t.c, tmp[t.pos*m1:(t.pos+1)*m1], out)
+			axpy(t.c, tmp[t.pos*m1:(t.pos+1)*m1], out)
 		}
 	}
 }
@@ -323,7 +307,7 @@ func balancedWeight(hr, h []float64, n1, m1 int, t0, t1 [][]term) {
 	for i, ts := range t0 {
 		in := h[i*m1 : (i+1)*m1]
 		for _, t := range ts {
-			axpyTo(t.c, in, tmp[t.pos*m1:(t.pos+1)*m1])
+			axpy(t.c, in, tmp[t.pos*m1:(t.pos+1)*m1])
 		}
 	}
 	clear(hr)
@@ -338,11 +322,5 @@ func balancedWeight(hr, h []float64, n1, m1 int, t0, t1 [][]term) {
 				out[t.pos] += t.c * v
 			}
 		}
-	}
-}
-
-func axpyTo(a float64, x, y []float64) {
-	for i, v := range x {
-		y[i] += a * v
 	}
 }

@@ -180,7 +180,7 @@ func TestBalancedCoordinates(t *testing.T) {
 	}
 	hr := make([]float64, len(raw))
 	balancedWeight(hr, h, len(supp1), len(f1), t0, t1)
-	if back := blas64.Dot(vec(hr), vec(raw)); math.Abs(back-inner) > tol*math.Abs(inner) {
+	if back := dot(hr, raw); math.Abs(back-inner) > tol*math.Abs(inner) {
 		t.Errorf("<balancedWeight(h), raw> = %.12g, <h, balancedSub(raw)> = %.12g", back, inner)
 	}
 }
@@ -226,4 +226,27 @@ func rankOf(lr *lowRank) int {
 		return -1
 	}
 	return lr.rank()
+}
+
+// TestPositionFollowsPlacement checks that the check unknowns are placed on
+// the surface as moved, not on the mesh its basis shares with the unmoved
+// one: every position on a surface translated by v is the unmoved one plus
+// v, in RWG and in balanced coordinates (exact up to the rounding of one
+// addition, so 1e-12 of the radius).
+func TestPositionFollowsPlacement(t *testing.T) {
+	fx := newBalancedFixture(t, 2.5)
+	s := fx.sys.surf[1]
+	v := r3.Vec{X: 0.3, Y: -0.2, Z: 1.1}
+	moved := s.Translate(v)
+	rwg := topologyOf(s)
+	bal := rwg
+	bal.bal = fx.bal[1]
+	for _, et := range []edgeTopology{rwg, bal} {
+		for j := 0; j < s.Len(); j++ {
+			want := r3.Add(et.position(s, j), v)
+			if d := r3.Norm(r3.Sub(et.position(moved, j), want)); d > 1e-12 {
+				t.Fatalf("balanced %v, unknown %d: moved by %v, want %v (off by %.3g)", et.bal != nil, j, et.position(moved, j), want, d)
+			}
+		}
+	}
 }

@@ -224,6 +224,35 @@ type sampledBasis struct {
 // rank is the rank of the sampled path's approximation, min(p0, p1).
 func (sp *sampledBasis) rank() int { return min(sp.side[0].t.Rows, sp.side[1].t.Rows) }
 
+// midpoint returns the midpoint of edge e on the surface s as placed (its
+// panels' vertices, not the basis' mesh, which a moved surface shares).
+func (et edgeTopology) midpoint(s *bem.Surface, e int) r3.Vec {
+	plus := et.panels[e][0]
+	v := s.Panels[plus].V
+	var mid r3.Vec
+	for k, te := range et.edges[plus] {
+		if te != e { // vertex k is opposite edge k
+			mid = r3.Add(mid, r3.Scale(0.5, v[k]))
+		}
+	}
+	return mid
+}
+
+// position is where unknown j sits on the surface s as placed: an RWG
+// function at its edge's midpoint, a balanced one at the mean of its edges'
+// midpoints (a loop around its vertex, a tree at its edge).
+func (et edgeTopology) position(s *bem.Surface, j int) r3.Vec {
+	if et.bal == nil {
+		return et.midpoint(s, j)
+	}
+	edges, _ := et.bal.lt.Column(j)
+	var p r3.Vec
+	for _, e := range edges {
+		p = r3.Add(p, et.midpoint(s, e))
+	}
+	return r3.Scale(1/float64(len(edges)), p)
+}
+
 func topologyOf(s *bem.Surface) edgeTopology {
 	b := s.Basis
 	et := edgeTopology{panels: make([][2]int, len(b.Edges)), edges: b.TriEdge}
@@ -248,27 +277,11 @@ func (sp *sampledBasis) checks(i int, surf []*bem.Surface) []int {
 		d float64
 	}
 	var cs []cand
-	if bl := sp.topo[i].bal; bl != nil {
-		// Balanced check functions, placed at their edges' midpoints.
-		for j := 0; j < bl.lt.Len(); j++ {
-			if !in[j] {
-				p := bl.position(own, j)
-				cs = append(cs, cand{j, boxGap(lo, hi, p, p)})
-			}
+	for j := range in {
+		if !in[j] {
+			p := sp.topo[i].position(own, j)
+			cs = append(cs, cand{j, boxGap(lo, hi, p, p)})
 		}
-	}
-	for e, ed := range own.Basis.Edges {
-		if in[e] || sp.topo[i].bal != nil {
-			continue
-		}
-		v := own.Panels[ed.Plus].V
-		var mid r3.Vec
-		for k, te := range sp.topo[i].edges[ed.Plus] {
-			if te != e {
-				mid = r3.Add(mid, r3.Scale(0.5, v[k]))
-			}
-		}
-		cs = append(cs, cand{e, boxGap(lo, hi, mid, mid)})
 	}
 	if len(cs) <= sampledChecks {
 		out := make([]int, len(cs))
