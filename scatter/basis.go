@@ -28,6 +28,15 @@ import (
 // the bases; beyond a sixth of its block tolerance it whitens the leading
 // directions of that part for itself (crossBasis.fit), so the bases
 // decide only the speed, never the accuracy.
+//
+// The bases are nested: the references' directions enter them one
+// reference after the other, from the end of the sweep whose block has the
+// smaller rank, so the leading directions span the first references'
+// blocks. A point between two references takes the sampled path on the
+// smallest leading part holding both (a level), and the whole bases only
+// where that fails its check: in a gap sweep most points lie between the
+// far references, whose blocks need about half the directions of the
+// closest one, and the per-point work is cubic in the size.
 
 // Sweep-basis parameters.
 const (
@@ -51,7 +60,12 @@ const (
 	// basisKeep 1/10, 1/30 and 1/100 took 122.3, 113.4 and 119.2 s before
 	// the sampled path; with it, 1/30, 1/10 and 1/5 took about 101, 94.3
 	// and 93.9 s (1/5 sent most close points back to the compressed path).
-	basisRefs = 4
+	// With the nested levels (crossBasis.levelFor) the points between the
+	// far references cost little, and the references' own compressions
+	// weigh more: 2, 3 and 4 references took 75.3, 69.4 and 76.2 s (the
+	// sweep's CPU time 3.8, 3.5 and 3.9 times that of its self blocks,
+	// which does not depend on them), so 3.
+	basisRefs = 3
 	basisKeep = 1.0 / 10
 	// basisTight is the references' block tolerance relative to the run's:
 	// the sampled path interpolates in the bases, which amplifies what
@@ -105,9 +119,49 @@ type crossBasis struct {
 	// fit path (RWG blocks in orthonormal RWG bases) and the references'
 	// blocks are not available.
 	balanced bool
-	// sampled is the sampled path (sampled.go), nil where a side's basis
-	// cannot be interpolated.
-	sampled *sampledBasis
+	// sampled is the sampled path (sampled.go) on nested bases, smallest
+	// first, the last on the whole bases; empty where a side's basis cannot
+	// be interpolated. The references' directions enter the bases one
+	// reference after the other (spanOf), in the order added, so the
+	// leading directions of the bases are those of the first references:
+	// level k spans the blocks of added[:sampled[k].refs]. A point between
+	// two references needs only a level holding both (levelFor), and the
+	// per-point work grows as the cube of the bases' size.
+	sampled []*sampledBasis
+	added   []int // indices of the references' placements, in the order their directions entered the bases
+}
+
+// levelFor returns the smallest sampled level whose bases hold the
+// directions of the references lo and hi (indices into the placements the
+// basis was built from), or the whole bases when lo or hi is negative or
+// did not enter them. It returns nil when the basis has no sampled path.
+func (cb *crossBasis) levelFor(lo, hi int) *sampledBasis {
+	if len(cb.sampled) == 0 {
+		return nil
+	}
+	full := cb.sampled[len(cb.sampled)-1]
+	if lo < 0 || hi < 0 {
+		return full
+	}
+	need := 0
+	for _, j := range [2]int{lo, hi} {
+		at := -1
+		for k, a := range cb.added {
+			if a == j {
+				at = k
+			}
+		}
+		if at < 0 {
+			return full
+		}
+		need = max(need, at+1)
+	}
+	for _, sp := range cb.sampled {
+		if sp.refs >= need {
+			return sp
+		}
+	}
+	return full
 }
 
 // buildCrossBasis compresses the interaction block at the reference
@@ -152,29 +206,35 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 	if err != nil {
 		return nil, err
 	}
-	var us, vs []blas64.General
-	var thr []float64
 	for j, lr := range lrs {
 		if !cb.balanced {
 			// nil: the point's own evaluation goes dense. Balanced blocks
 			// are not the RWG ones the compressed path reduces.
 			cb.refs[pls[j]] = lr
 		}
-		if lr == nil || lr.rank() == 0 {
-			continue
-		}
+	}
+	var us, vs []blas64.General
+	var thr []float64
+	for _, j := range nestingOrder(lrs) {
+		lr := lrs[j]
 		sigma := columnNorms(lr.u)
 		us = append(us, lr.u)
 		vs = append(vs, scaledColumns(lr.v, sigma))
 		thr = append(thr, basisKeep*tols[j]*math.Sqrt(dot(sigma, sigma)))
+		cb.added = append(cb.added, j)
 	}
 	if len(us) == 0 {
 		return nil, nil
 	}
-	sampled := &sampledBasis{}
+	// The nested levels of the sampled path: one for every number of
+	// leading references from two on (a single reference is a point of its
+	// own), sides[c][i] that of side i on the first c+1 references.
+	first := min(2, len(us))
+	sides := make([][2]*sampledSide, len(us))
+	var topo [2]edgeTopology
 	xs := [2][]blas64.General{us, vs}
 	err = forEach(ctx, 2, sys.threads, func(ctx context.Context, i int) error {
-		bt, err := spanOf(xs[i], thr)
+		bt, cuts, err := spanOf(xs[i], thr)
 		if err != nil {
 			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
 		}
@@ -185,22 +245,94 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 			bal[i].invTransRows(sb.w.Data, sb.b.Data, sb.b.Cols)
 		}
 		solveLower(sb.l, sb.w, sys.threads)
-		sb.g = product(transpose(sb.w), sb.w)
+		sb.g = gram(sb.w)
+
 		cb.side[i] = sb
-		sampled.topo[i] = topologyOf(sys.surf[i])
-		sampled.topo[i].bal = bal[i]
-		if sampled.side[i], err = newSampledSide(sb, sampled.topo[i]); err != nil {
-			return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+		topo[i] = topologyOf(sys.surf[i])
+		topo[i].bal = bal[i]
+		for c := first - 1; c < len(us); c++ {
+			if c > first-1 && cuts[c] == cuts[c-1] {
+				sides[c][i] = sides[c-1][i]
+				continue
+			}
+			if sides[c][i], err = newSampledSide(sb.prefix(cuts[c]), topo[i]); err != nil {
+				return fmt.Errorf("scatter: sweep basis of %s at κ = %g: %w", sys.names[i], sf.kappa, err)
+			}
 		}
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
-	if sampled.side[0] != nil && sampled.side[1] != nil {
-		cb.sampled = sampled // nil where a side's basis cannot be interpolated
+	for c := first - 1; c < len(us); c++ {
+		s := sides[c]
+		if s[0] == nil || s[1] == nil {
+			continue // cannot be interpolated: the next level serves its points
+		}
+		if n := len(cb.sampled); n > 0 && cb.sampled[n-1].side == s {
+			cb.sampled[n-1].refs = c + 1 // no new directions: the same level
+			continue
+		}
+		cb.sampled = append(cb.sampled, &sampledBasis{side: s, topo: topo, refs: c + 1})
+	}
+	if n := len(cb.sampled); n > 0 && cb.sampled[n-1].refs < len(us) {
+		cb.sampled = nil // the whole bases cannot be interpolated
 	}
 	return cb, nil
+}
+
+// gram returns Wᵀ W (p×p) for the N×p matrix w: the lower triangle by a
+// rank-N update (half the work of the general product), mirrored.
+func gram(w blas64.General) blas64.General {
+	p := w.Cols
+	g := blas64.General{Rows: p, Cols: p, Stride: p, Data: make([]float64, p*p)}
+	lowerRankUpdate(g.Data, p, p, transpose(w), 1)
+	for i := 0; i < p; i++ {
+		for j := 0; j < i; j++ {
+			g.Data[j*p+i] = g.Data[i*p+j]
+		}
+	}
+	return g
+}
+
+// nestingOrder returns the indices of the compressed reference blocks lrs
+// (nil or rank 0 left out) in the order their directions enter the bases:
+// from the end of the sweep whose reference has the smaller rank towards
+// the other, so that the leading levels, which serve the points between
+// the first references, are the smallest (for a gap sweep the far end).
+func nestingOrder(lrs []*lowRank) []int {
+	var out []int
+	for j, lr := range lrs {
+		if lr != nil && lr.rank() > 0 {
+			out = append(out, j)
+		}
+	}
+	if n := len(out); n > 1 && lrs[out[n-1]].rank() < lrs[out[0]].rank() {
+		for a, b := 0, n-1; a < b; a, b = a+1, b-1 {
+			out[a], out[b] = out[b], out[a]
+		}
+	}
+	return out
+}
+
+// prefix returns the basis of the first k directions of sb (k ≤ p): the
+// leading columns of B and W and the leading block of G. The bases are
+// nested (spanOf), so this is the basis of the first references.
+func (sb *sideBasis) prefix(k int) *sideBasis {
+	if k == sb.size() {
+		return sb
+	}
+	n := sb.b.Rows
+	cols := func(a blas64.General, r int) blas64.General {
+		return copyGeneral(blas64.General{Rows: r, Cols: k, Stride: a.Stride, Data: a.Data})
+	}
+	return &sideBasis{
+		b:  cols(sb.b, n),
+		bt: copyGeneral(blas64.General{Rows: k, Cols: n, Stride: sb.bt.Stride, Data: sb.bt.Data[:k*sb.bt.Stride]}),
+		w:  cols(sb.w, n),
+		g:  cols(sb.g, k),
+		l:  sb.l,
+	}
 }
 
 // spanOf returns, transposed (p×N), an orthonormal basis of the directions
@@ -212,17 +344,23 @@ func (sys *system) buildCrossBasis(ctx context.Context, sf *selfFactors, pls []p
 // rank its directions: what rounding leaves of the basis in the residual
 // is of order 1e-16 of the block, far below the thresholds (a tenth of a
 // block tolerance: 7e-10 of the block at accuracy 1e-3 and the lowest κ of
-// BenchmarkSweep).
-func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
+// BenchmarkSweep). cuts[i] is the number of directions after those of
+// xs[:i+1]: the first cuts[i] rows of the basis span the first i+1
+// matrices to their thresholds.
+func spanOf(xs []blas64.General, thr []float64) (bt blas64.General, cuts []int, err error) {
 	n := xs[0].Rows
-	bt := blas64.General{Rows: 0, Cols: n, Stride: n}
+	bt = blas64.General{Rows: 0, Cols: n, Stride: n}
+	cuts = make([]int, len(xs))
 	for i, x := range xs {
+		if i > 0 {
+			cuts[i-1] = bt.Rows
+		}
 		e := copyGeneral(x)
 		removeSpan(bt, e)
 		k := e.Cols
 		vals, vecs, err := gramEigen(e)
 		if err != nil {
-			return blas64.General{}, err
+			return blas64.General{}, nil, err
 		}
 		var keep []int
 		for j := k - 1; j >= 0; j-- {
@@ -250,7 +388,8 @@ func spanOf(xs []blas64.General, thr []float64) (blas64.General, error) {
 		bt.Data = append(bt.Data[:bt.Rows*n:bt.Rows*n], qt.Data...)
 		bt.Rows += qt.Rows
 	}
-	return bt, nil
+	cuts[len(xs)-1] = bt.Rows
+	return bt, cuts, nil
 }
 
 // removeSpan overwrites x (N×k) with x - B Bᵀ x for the basis bt = Bᵀ.

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/blas/blas64"
@@ -56,7 +57,7 @@ func TestSpanOf(t *testing.T) {
 		xs = append(xs, mat.DenseCopyOf(&x).RawMatrix())
 		thr = append(thr, 1e-6)
 	}
-	bt, err := spanOf(xs, thr)
+	bt, cuts, err := spanOf(xs, thr)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -77,13 +78,21 @@ func TestSpanOf(t *testing.T) {
 			}
 		}
 	}
+	// The basis is nested: its first cuts[k] directions span the first
+	// k+1 inputs (5 directions, then all 12 with the second).
+	if want := []int{5, q, q}; !slices.Equal(cuts, want) {
+		t.Fatalf("cuts %v, want %v", cuts, want)
+	}
 	for k, x := range xs {
-		e := copyGeneral(x)
-		removeSpan(bt, e)
-		var svd mat.SVD
-		svd.Factorize(fromGeneral(e), mat.SVDNone)
-		if s := svd.Values(nil)[0]; s > 1e-8 {
-			t.Errorf("input %d: largest singular value outside the basis %.3g, want ≤ 1e-8 (the noise)", k, s)
+		for j := k; j < len(xs); j++ {
+			e := copyGeneral(x)
+			lead := blas64.General{Rows: cuts[j], Cols: n, Stride: n, Data: bt.Data[:cuts[j]*n]}
+			removeSpan(lead, e)
+			var svd mat.SVD
+			svd.Factorize(fromGeneral(e), mat.SVDNone)
+			if s := svd.Values(nil)[0]; s > 1e-8 {
+				t.Errorf("input %d: largest singular value outside the first %d directions %.3g, want ≤ 1e-8 (the noise)", k, cuts[j], s)
+			}
 		}
 	}
 }
@@ -98,7 +107,11 @@ func TestSpanOf(t *testing.T) {
 // closest point's block: there the point's own directions must make up for
 // it (the fit reports them) and the result must stay as accurate. Each
 // point is evaluated by the sampled path (sampled.go), which must take the
-// points between the references, and by the fit of its compressed block.
+// points between the references, and by the fit of its compressed block;
+// a point between two references also by the sampled path on the smallest
+// nested level holding those two (crossBasis.levelFor), which must be
+// smaller than the whole bases for the points between the far references
+// and as accurate.
 func TestBasisIntegrand(t *testing.T) {
 	const accuracy = 1e-3
 	bodies := pairScene(t, 4, 4)
@@ -118,10 +131,13 @@ func TestBasisIntegrand(t *testing.T) {
 		point   float64
 		extra   bool // the fit needs the point's own directions
 		sampled bool // the sampled path takes the point
+		between [2]int
+		nested  bool // a level smaller than the whole bases serves the point
 	}{
-		{"between references", spread, 1.0 / 3, false, true},
-		{"between references", spread, 1, false, true},
-		{"outside the references", far, 0, true, false},
+		{"between references", spread, 1.0 / 3, false, true, [2]int{0, 1}, false},
+		{"between references", spread, 1, false, true, [2]int{1, 2}, true},
+		{"between references", spread, 5.0 / 3, false, true, [2]int{2, 3}, true},
+		{"outside the references", far, 0, true, false, [2]int{-1, -1}, false},
 	} {
 		for _, kappa := range []float64{0.005, 0.05, 0.5, 2} {
 			sf, err := sys.factorSelf(ctx, kappa)
@@ -178,17 +194,41 @@ func TestBasisIntegrand(t *testing.T) {
 					t.Errorf("%s, κ=%g: the fit found the point inside a basis built from the far placements only", tc.name, kappa)
 				}
 			}
-			for _, got := range []struct {
+			paths := []struct {
 				path string
 				ev   evaluation
-			}{{"sampled", sampled}, {"fit", comp}} {
+			}{{"sampled", sampled}, {"fit", comp}}
+			if tc.sampled {
+				// The nested level of the references the point lies between.
+				lv := sf.basis.levelFor(tc.between[0], tc.between[1])
+				full := sf.basis.levelFor(-1, -1)
+				if tc.nested && (lv == nil || lv.rank() >= full.rank()) {
+					t.Fatalf("%s, κ=%g: no level smaller than the whole bases (%d references added as %v)", tc.name, kappa, len(sf.basis.added), sf.basis.added)
+				}
+				surf, _ := sys.surfacesAt(pl)
+				nested, ok, err := sys.sampledTwo(ctx, sf, surf, pl, true, tc.between[0], tc.between[1])
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !ok {
+					t.Fatalf("%s, κ=%g: the sampled path did not take the point on its level", tc.name, kappa)
+				}
+				if tc.nested && nested.ranks[0].Rank >= full.rank() {
+					t.Errorf("%s, κ=%g: rank %d on the level, want below the whole bases' %d", tc.name, kappa, nested.ranks[0].Rank, full.rank())
+				}
+				paths = append(paths, struct {
+					path string
+					ev   evaluation
+				}{"level", nested})
+			}
+			for _, got := range paths {
 				rel := math.Abs(got.ev.logDet/dense.logDet - 1)
 				worst := 0.0
 				for i := range got.ev.grad {
 					worst = math.Max(worst, math.Abs(got.ev.grad[i]-dense.grad[i])/math.Abs(dense.grad[2]))
 				}
-				t.Logf("%s, offset %.3g, κ=%g, %s (sampled %d): basis %d+%d, own directions %v, integrand error %.2g, gradient error %.2g",
-					tc.name, tc.point, kappa, got.path, got.ev.ranks[0].Sampled, sf.basis.side[0].size(), sf.basis.side[1].size(), extra, rel, worst)
+				t.Logf("%s, offset %.3g, κ=%g, %s (sampled %d, rank %d): basis %d+%d, own directions %v, integrand error %.2g, gradient error %.2g",
+					tc.name, tc.point, kappa, got.path, got.ev.ranks[0].Sampled, got.ev.ranks[0].Rank, sf.basis.side[0].size(), sf.basis.side[1].size(), extra, rel, worst)
 				if rel > accuracy/5 {
 					t.Errorf("%s, κ=%g, %s: integrand %.8g through the basis, %.8g dense (relative %.2g)", tc.name, kappa, got.path, got.ev.logDet, dense.logDet, rel)
 				}
@@ -312,5 +352,55 @@ func TestBasisAngleSweep(t *testing.T) {
 		if len(comp[i].Ranks) != 1 || comp[i].Ranks[0].Basis == 0 {
 			t.Errorf("angle %.2f: ranks %+v, want evaluations through the basis", turns[i].Angle, comp[i].Ranks)
 		}
+	}
+}
+
+// TestNestedLevels checks the bookkeeping of the nested levels of the
+// sampled path: references enter the bases from the end of smaller rank,
+// blocks that did not compress are left out, and a point between two
+// references gets the smallest level holding both (the whole bases for a
+// reference left out or for no bracket). Exact (integer bookkeeping).
+func TestNestedLevels(t *testing.T) {
+	ofRank := func(r int) *lowRank {
+		return &lowRank{u: blas64.General{Rows: 4, Cols: r, Stride: max(r, 1), Data: make([]float64, 4*max(r, 1))}}
+	}
+	for _, tc := range []struct {
+		ranks []int // -1: did not compress
+		want  []int
+	}{
+		{[]int{300, 200, 120}, []int{2, 1, 0}},
+		{[]int{120, 200, 300}, []int{0, 1, 2}},
+		{[]int{300, -1, 0, 120}, []int{3, 0}},
+		{[]int{-1}, nil},
+	} {
+		lrs := make([]*lowRank, len(tc.ranks))
+		for j, r := range tc.ranks {
+			if r >= 0 {
+				lrs[j] = ofRank(r)
+			}
+		}
+		if got := nestingOrder(lrs); !slices.Equal(got, tc.want) {
+			t.Errorf("nestingOrder(ranks %v) = %v, want %v", tc.ranks, got, tc.want)
+		}
+	}
+	small, mid, full := &sampledBasis{refs: 2}, &sampledBasis{refs: 3}, &sampledBasis{refs: 4}
+	cb := &crossBasis{added: []int{4, 3, 2, 0}, sampled: []*sampledBasis{small, mid, full}} // reference 1 left out
+	for _, tc := range []struct {
+		lo, hi int
+		want   *sampledBasis
+	}{
+		{4, 4, small}, // a reference of its own: the first level there is
+		{3, 4, small},
+		{2, 3, mid},
+		{0, 2, full},
+		{1, 2, full}, // a reference left out
+		{-1, -1, full},
+	} {
+		if got := cb.levelFor(tc.lo, tc.hi); got != tc.want {
+			t.Errorf("levelFor(%d, %d): level of %d references, want %d", tc.lo, tc.hi, got.refs, tc.want.refs)
+		}
+	}
+	if (&crossBasis{}).levelFor(0, 1) != nil {
+		t.Error("levelFor without a sampled path: want nil")
 	}
 }

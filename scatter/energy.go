@@ -350,7 +350,8 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 		if err != nil {
 			return err
 		}
-		if refs := r.basisRefs(kappa); refs != nil {
+		refs, between := r.basisRefs(kappa)
+		if refs != nil {
 			if sf.basis, err = r.sys.buildCrossBasis(ctx, sf, refs); err != nil {
 				return err
 			}
@@ -359,7 +360,7 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 		for j < len(reqs) && reqs[j].kappa == kappa {
 			j++
 		}
-		evs, err := r.evaluateAt(ctx, sf, reqs[i:j], grad)
+		evs, err := r.evaluateAt(ctx, sf, reqs[i:j], grad, between)
 		if err != nil {
 			return err
 		}
@@ -403,8 +404,9 @@ func (r *runner) evaluate(ctx context.Context, reqs []request) error {
 // small (matrices of the basis' size) and partly serial, so that two
 // points at once keep the cores busy; the points it does not take are then
 // evaluated one after the other on the surfaces already placed for the
-// attempt, as all points are without it.
-func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request, grad bool) ([]evaluation, error) {
+// attempt, as all points are without it. between gives the references of
+// the sweep basis each point lies between (basisRefs).
+func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request, grad bool, between map[int][2]int) ([]evaluation, error) {
 	evs := make([]evaluation, len(reqs))
 	systems := make([]*system, len(reqs))
 	for k, rq := range reqs {
@@ -433,7 +435,11 @@ func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request
 			return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
 		}
 		var ok bool
-		if evs[k], ok, err = systems[k].sampledTwo(ctx, sf, surf, pl, grad); err != nil {
+		lo, hi := -1, -1
+		if b, in := between[reqs[k].p]; in {
+			lo, hi = b[0], b[1]
+		}
+		if evs[k], ok, err = systems[k].sampledTwo(ctx, sf, surf, pl, grad, lo, hi); err != nil {
 			return fmt.Errorf("sweep point %d: %w", reqs[k].p+1, err)
 		}
 		if !ok {
@@ -458,15 +464,18 @@ func (r *runner) evaluateAt(ctx context.Context, sf *selfFactors, reqs []request
 
 // basisRefs returns the reference placements of the sweep basis at κ
 // (basis.go): basisRefs points spread over those of the sweep whose
-// cutoff admits κ (evenly in the inverse gap), or nil when the scene is
-// not two bodies in free space with compression on, or fewer than
-// basisMinPoints points admit κ. The choice depends on the whole sweep
-// only, never on which points a run computes or has stored, so every shard
-// and every resumed run builds the same basis and computes a point alike.
-func (r *runner) basisRefs(kappa float64) []placement {
+// cutoff admits κ (evenly in the inverse gap), in sweep order, or nil when
+// the scene is not two bodies in free space with compression on, or fewer
+// than basisMinPoints points admit κ. between gives, for every point that
+// admits κ, the indices of the two references it lies between (twice the
+// same for a reference): the level of the nested bases it needs
+// (crossBasis.levelFor). The choice depends on the whole sweep only, never
+// on which points a run computes or has stored, so every shard and every
+// resumed run builds the same basis and computes a point alike.
+func (r *runner) basisRefs(kappa float64) (refs []placement, between map[int][2]int) {
 	sys := r.sys
 	if !sys.compress.on || len(sys.surf) != 2 || sys.plane != nil || sys.mats != nil {
-		return nil
+		return nil, nil
 	}
 	var admit []int
 	for i, d := range r.scale {
@@ -475,7 +484,7 @@ func (r *runner) basisRefs(kappa float64) []placement {
 		}
 	}
 	if len(admit) < basisMinPoints {
-		return nil
+		return nil, nil
 	}
 	// The references are spread evenly along the sweep in the inverse of
 	// the gap, Σ |Δoffset| / gap² (for a gap sweep the step of 1/gap): the
@@ -502,9 +511,9 @@ func (r *runner) basisRefs(kappa float64) []placement {
 			at[k] = float64(k)
 		}
 	}
-	refs := make([]placement, basisRefs)
+	chosen := make([]int, 0, basisRefs) // indices into admit
 	used := make([]bool, len(admit))
-	for j := range refs {
+	for j := 0; j < basisRefs; j++ {
 		target := at[len(at)-1] * float64(j) / float64(basisRefs-1)
 		best := -1
 		for k := range admit {
@@ -513,9 +522,27 @@ func (r *runner) basisRefs(kappa float64) []placement {
 			}
 		}
 		used[best] = true
-		refs[j] = r.placementOf(admit[best], 0)
+		chosen = append(chosen, best)
 	}
-	return refs
+	sort.Ints(chosen) // at grows along admit
+	between = make(map[int][2]int, len(admit))
+	for k, p := range admit {
+		lo := 0
+		for j, c := range chosen {
+			if c <= k {
+				lo = j
+			}
+		}
+		hi := lo
+		if chosen[lo] < k && lo+1 < len(chosen) {
+			hi = lo + 1
+		}
+		between[p] = [2]int{lo, hi}
+	}
+	for _, c := range chosen {
+		refs = append(refs, r.placementOf(admit[c], 0))
+	}
+	return refs, between
 }
 
 // maxLooseTolerance caps the block tolerance looseness may allow: a block

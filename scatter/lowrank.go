@@ -53,7 +53,7 @@ func mergeRanks(to, from []BlockRank) []BlockRank {
 // misses. Before that, a point the basis' sampled path (sampled.go) takes
 // skips its own compression.
 func (sys *system) evaluateTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, error) {
-	if ev, ok, err := sys.sampledTwo(ctx, sf, surf, pl, grad); err != nil || ok {
+	if ev, ok, err := sys.sampledTwo(ctx, sf, surf, pl, grad, -1, -1); err != nil || ok {
 		return ev, err
 	}
 	return sys.compressedTwo(ctx, sf, surf, pl, grad)
@@ -106,13 +106,16 @@ func (sys *system) blockTolerance(sf *selfFactors, surf []*bem.Surface) float64 
 // hasSampled tells whether a two-body evaluation at the κ of sf tries the
 // sweep basis' sampled path (sampled.go) first.
 func (sys *system) hasSampled(sf *selfFactors) bool {
-	return sys.compress.on && sf.basis != nil && sf.basis.sampled != nil
+	return sys.compress.on && sf.basis != nil && len(sf.basis.sampled) > 0
 }
 
 // sampledTwo is the two-body integrand by the sweep basis' sampled path
-// (sampled.go). It reports false, with no error, when κ has no sampled
-// path or the point's block does not lie in the bases closely enough.
-func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool) (evaluation, bool, error) {
+// (sampled.go), on the smallest level holding the references lo and hi
+// (crossBasis.levelFor; negative for the whole bases) and, where the
+// point's block does not lie in that level closely enough, on the whole
+// bases. It reports false, with no error, when κ has no sampled path or
+// the point's block does not lie in the bases closely enough.
+func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, lo, hi int) (evaluation, bool, error) {
 	if !sys.hasSampled(sf) {
 		return evaluation{}, false, nil
 	}
@@ -120,12 +123,21 @@ func (sys *system) sampledTwo(ctx context.Context, sf *selfFactors, surf []*bem.
 	if sf.basis.balanced {
 		tol = sys.compress.tol // the balancing replaces the (κa)² tightening
 	}
-	ev, ok, err := sys.evaluateSampled(ctx, sf, surf, pl, grad, tol)
-	if err != nil || !ok {
-		return evaluation{}, false, err
+	levels := []*sampledBasis{sf.basis.levelFor(lo, hi)}
+	if full := sf.basis.levelFor(-1, -1); levels[0] != full {
+		levels = append(levels, full)
 	}
-	ev.ranks = []BlockRank{{Rows: sys.names[0], Cols: sys.names[1], Rank: sf.basis.sampled.rank(), Compressed: 1, Basis: 1, Sampled: 1}}
-	return ev, true, nil
+	for _, sp := range levels {
+		ev, ok, err := sys.evaluateSampled(ctx, sf, sp, surf, pl, grad, tol)
+		if err != nil {
+			return evaluation{}, false, err
+		}
+		if ok {
+			ev.ranks = []BlockRank{{Rows: sys.names[0], Cols: sys.names[1], Rank: sp.rank(), Compressed: 1, Basis: 1, Sampled: 1}}
+			return ev, true, nil
+		}
+	}
+	return evaluation{}, false, nil
 }
 
 // evaluatePairLowRank is evaluatePair with M01 ≈ U Vᵀ of rank r. With

@@ -215,10 +215,12 @@ func (et edgeTopology) complete(list []int) []int {
 	return out
 }
 
-// sampledBasis is the sampled path of both sides at one κ.
+// sampledBasis is the sampled path of both sides at one κ, on the bases
+// of the first refs references (crossBasis.levelFor).
 type sampledBasis struct {
 	side [2]*sampledSide
 	topo [2]edgeTopology
+	refs int
 }
 
 // rank is the rank of the sampled path's approximation, min(p0, p1).
@@ -305,12 +307,11 @@ func (sp *sampledBasis) checks(i int, surf []*bem.Surface) []int {
 	return out
 }
 
-// evaluateSampled is the two-body integrand by the sampled path at a
+// evaluateSampled is the two-body integrand by the sampled path sp at a
 // placement. It reports false, with no error, when the error of the
 // point's block estimated from the check rows and columns (sampledBlock)
 // exceeds tol (relative, Frobenius) times sampledShare.
-func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, surf []*bem.Surface, pl placement, grad bool, tol float64) (evaluation, bool, error) {
-	sp := sf.basis.sampled
+func (sys *system) evaluateSampled(ctx context.Context, sf *selfFactors, sp *sampledBasis, surf []*bem.Surface, pl placement, grad bool, tol float64) (evaluation, bool, error) {
 	s0, s1 := sp.side[0], sp.side[1]
 	x, ok, err := sys.sampledBlock(ctx, sf, sp, surf, tol*sampledShare)
 	if err != nil || !ok {
