@@ -116,14 +116,6 @@ func NewLoopTree(b *Basis) (*LoopTree, error) {
 		lt.byVertex[v] = -1
 	}
 	visited := make([]bool, nv)
-	coef := func(v, e int) float64 {
-		for _, tm := range terms[v] {
-			if tm.edge == e {
-				return tm.c
-			}
-		}
-		return 0
-	}
 	for c, t0 := range roots {
 		r := m.Triangles[t0][0]
 		visited[r] = true
@@ -146,7 +138,7 @@ func NewLoopTree(b *Basis) (*LoopTree, error) {
 				j := len(lt.loop)
 				lt.byVertex[w] = j
 				lt.loop = append(lt.loop, terms[w])
-				lt.order = append(lt.order, treeStep{col: j, edge: e, parent: lt.byVertex[v], self: coef(w, e), up: coef(v, e)})
+				lt.order = append(lt.order, treeStep{col: j, edge: e, parent: lt.byVertex[v], self: coefOf(terms[w], e), up: coefOf(terms[v], e)})
 				queue = append(queue, w)
 			}
 		}
@@ -233,7 +225,7 @@ func (lt *LoopTree) Mul(dst, src []float64, k int) {
 	}
 	for i, e := range lt.tree {
 		j := len(lt.loop) + i
-		copyAdd(dst[e*k:(e+1)*k], src[j*k:(j+1)*k])
+		axpyRow(1, src[j*k:(j+1)*k], dst[e*k:(e+1)*k])
 	}
 }
 
@@ -272,7 +264,7 @@ func (lt *LoopTree) Solve(dst, src []float64, k int) {
 		ed := lt.basis.Edges[e]
 		for _, v := range ed.Vertices {
 			if c := lt.byVertex[v]; c >= 0 {
-				axpyRow(-lt.coef(c, e), dst[c*k:(c+1)*k], d)
+				axpyRow(-coefOf(lt.loop[c], e), dst[c*k:(c+1)*k], d)
 			}
 		}
 	}
@@ -309,9 +301,9 @@ func (lt *LoopTree) SolveTrans(dst, src []float64, k int) {
 	}
 }
 
-// coef returns the coefficient of edge e in loop column j.
-func (lt *LoopTree) coef(j, e int) float64 {
-	for _, tm := range lt.loop[j] {
+// coefOf returns the coefficient of edge e among the terms of one loop.
+func coefOf(terms []loopTerm, e int) float64 {
+	for _, tm := range terms {
 		if tm.edge == e {
 			return tm.c
 		}
@@ -322,12 +314,6 @@ func (lt *LoopTree) coef(j, e int) float64 {
 func axpyRow(a float64, x, y []float64) {
 	for i, v := range x {
 		y[i] += a * v
-	}
-}
-
-func copyAdd(dst, src []float64) {
-	for i, v := range src {
-		dst[i] += v
 	}
 }
 

@@ -104,7 +104,7 @@ func (bl *balance) column(j int) ([]int, []float64) {
 func (bl *balance) transRows(dst, src []float64, k int) {
 	bl.lt.MulTrans(dst, src, k)
 	for j, s := range bl.s {
-		scaleRow(s, dst[j*k:(j+1)*k])
+		blas64.Scal(s, blas64.Vector{N: k, Inc: 1, Data: dst[j*k : (j+1)*k]})
 	}
 }
 
@@ -114,24 +114,20 @@ func (bl *balance) transRows(dst, src []float64, k int) {
 func (bl *balance) invTransRows(dst, src []float64, k int) {
 	tmp := append([]float64(nil), src[:bl.lt.Len()*k]...)
 	for j, s := range bl.s {
-		scaleRow(1/s, tmp[j*k:(j+1)*k])
+		blas64.Scal(1/s, blas64.Vector{N: k, Inc: 1, Data: tmp[j*k : (j+1)*k]})
 	}
 	bl.lt.SolveTrans(dst, tmp, k)
 }
 
-func scaleRow(a float64, x []float64) {
-	for i := range x {
-		x[i] *= a
-	}
-}
-
 // crossSource gives rows and columns of an interaction block to the
-// adaptive cross approximation: the RWG block itself or its balanced form.
+// adaptive cross approximation and to the sampled path's checks: the RWG
+// block itself or its balanced form.
 type crossSource interface {
 	size() (m, n int)
-	// row writes row i (n values) and col column j (m values) into dst.
-	row(ctx context.Context, dst []float64, i int) error
-	col(ctx context.Context, dst []float64, j int) error
+	// rows writes the listed rows (each n values) and cols the listed
+	// columns (each m values, stored as a row) into dst.
+	rows(ctx context.Context, dst []float64, idx []int) error
+	cols(ctx context.Context, dst []float64, idx []int) error
 }
 
 // rwgSource is the RWG block between surfaces a (rows) and b (columns).
@@ -142,11 +138,11 @@ type rwgSource struct {
 }
 
 func (s rwgSource) size() (int, int) { return s.a.Len(), s.b.Len() }
-func (s rwgSource) row(ctx context.Context, dst []float64, i int) error {
-	return s.asm.CrossRows(ctx, dst, s.op, s.a, s.b, []int{i})
+func (s rwgSource) rows(ctx context.Context, dst []float64, idx []int) error {
+	return s.asm.CrossRows(ctx, dst, s.op, s.a, s.b, idx)
 }
-func (s rwgSource) col(ctx context.Context, dst []float64, j int) error {
-	return s.asm.CrossColumns(ctx, dst, s.op, s.a, s.b, []int{j})
+func (s rwgSource) cols(ctx context.Context, dst []float64, idx []int) error {
+	return s.asm.CrossColumns(ctx, dst, s.op, s.a, s.b, idx)
 }
 
 // balancedSource is M' = (T0 S0)ᵀ M01 (T1 S1) between surfaces a and b with
@@ -174,14 +170,6 @@ func newBalancedSource(asm bem.Assembler, op bem.Operator, a, b *bem.Surface, ba
 }
 
 func (s *balancedSource) size() (int, int) { return s.a.Len(), s.b.Len() }
-
-func (s *balancedSource) row(ctx context.Context, dst []float64, i int) error {
-	return s.rows(ctx, dst, []int{i})
-}
-
-func (s *balancedSource) col(ctx context.Context, dst []float64, j int) error {
-	return s.cols(ctx, dst, []int{j})
-}
 
 // rows writes rows fns of M' (len(fns) × N1) into dst.
 func (s *balancedSource) rows(ctx context.Context, dst []float64, fns []int) error {

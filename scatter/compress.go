@@ -203,7 +203,7 @@ func (sys *system) aca(ctx context.Context, src crossSource, tol float64, maxRan
 		if err := ctx.Err(); err != nil {
 			return nil, nil, nil, false, fmt.Errorf("scatter: compression: %w", err)
 		}
-		if err := src.row(ctx, row, i); err != nil {
+		if err := src.rows(ctx, row, []int{i}); err != nil {
 			return nil, nil, nil, false, err
 		}
 		usedRow[i] = true
@@ -223,7 +223,7 @@ func (sys *system) aca(ctx context.Context, src crossSource, tol float64, maxRan
 		for k, x := range row {
 			v[k] = x / row[j]
 		}
-		if err := src.col(ctx, col, j); err != nil {
+		if err := src.cols(ctx, col, []int{j}); err != nil {
 			return nil, nil, nil, false, err
 		}
 		usedCol[j] = true
@@ -298,7 +298,7 @@ func missedRow(ctx context.Context, src crossSource, us, vs [][]float64, used []
 		if i == m {
 			continue
 		}
-		if err := src.row(ctx, buf, i); err != nil {
+		if err := src.rows(ctx, buf, []int{i}); err != nil {
 			return -1, err
 		}
 		for l := range us {

@@ -405,18 +405,14 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 		}
 		errSq = max(errSq, sum*float64(n)/float64(c))
 	}
-	var bs *balancedSource // exact balanced rows and columns, if balanced
+	// Exact rows and columns of the block in the coordinates of the bases.
+	var src crossSource = rwgSource{asm: sys.asm, op: sf.op, a: surf[0], b: surf[1]}
 	if sp.topo[0].bal != nil {
-		bs = newBalancedSource(sys.asm, sf.op, surf[0], surf[1], [2]*balance{sp.topo[0].bal, sp.topo[1].bal})
+		src = newBalancedSource(sys.asm, sf.op, surf[0], surf[1], [2]*balance{sp.topo[0].bal, sp.topo[1].bal})
 	}
 	if rows := sp.checks(0, surf); len(rows) > 0 {
 		exact := make([]float64, len(rows)*surf[1].Len())
-		if bs != nil {
-			err = bs.rows(ctx, exact, rows)
-		} else {
-			err = sys.asm.CrossRows(ctx, exact, sf.op, surf[0], surf[1], rows)
-		}
-		if err != nil {
+		if err := src.rows(ctx, exact, rows); err != nil {
 			return x, false, err
 		}
 		// B0[rows, :] X B1ᵀ, c×N1
@@ -424,12 +420,7 @@ func (sys *system) sampledBlock(ctx context.Context, sf *selfFactors, sp *sample
 	}
 	if cols := sp.checks(1, surf); len(cols) > 0 {
 		exact := make([]float64, len(cols)*surf[0].Len())
-		if bs != nil {
-			err = bs.cols(ctx, exact, cols)
-		} else {
-			err = sys.asm.CrossColumns(ctx, exact, sf.op, surf[0], surf[1], cols)
-		}
-		if err != nil {
+		if err := src.cols(ctx, exact, cols); err != nil {
 			return x, false, err
 		}
 		// B1[cols, :] Xᵀ B0ᵀ, c×N0

@@ -73,13 +73,6 @@ func newSystem(bodies []Body, moving, threads int, plane *Plane) (*system, error
 		}
 		sys.names = append(sys.names, b.Name)
 		sys.surf = append(sys.surf, s)
-		lt, err := mesh.NewLoopTree(basis)
-		if err != nil {
-			// Without it the sweep basis stays in RWG coordinates at low
-			// κ, with the tightened tolerance: slower, as accurate.
-			lt = nil
-		}
-		sys.loops = append(sys.loops, lt)
 		orig := -1
 		for j := range sys.surf[:len(sys.surf)-1] {
 			if isTranslate(bodies[j].Mesh, b.Mesh) {
@@ -88,6 +81,17 @@ func newSystem(bodies []Body, moving, threads int, plane *Plane) (*system, error
 			}
 		}
 		sys.copyOf = append(sys.copyOf, orig)
+		// A translated copy has the same edges, so the same loop–tree basis.
+		var lt *mesh.LoopTree
+		if orig >= 0 {
+			lt = sys.loops[orig]
+		} else if lt, err = mesh.NewLoopTree(basis); err != nil {
+			// Without it (a surface with handles or one that is not
+			// closed) the sweep basis stays in RWG coordinates at low κ,
+			// with the tightened tolerance: slower, as accurate.
+			lt = nil
+		}
+		sys.loops = append(sys.loops, lt)
 		if plane != nil {
 			sys.images = append(sys.images, s.Mirror(plane.Point, plane.Normal))
 		}
